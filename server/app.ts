@@ -1,0 +1,63 @@
+/**
+ * createApp builds the Express app without listening (tests use it with supertest).
+ * Order (STACK §6): helmet, JSON body, session, /api routers, JSON 404 for /api/*, client (static dist/
+ * with SPA fallback, or a dev middleware such as Vite), then the error handler.
+ */
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { fileURLToPath } from 'node:url';
+import express, { type Express, type RequestHandler } from 'express';
+import helmet from 'helmet';
+import type { Sequelize } from 'sequelize';
+import type { Config } from './config.ts';
+import { initModels, modelsBoundTo } from './db/models/index.ts';
+import { apiNotFound, errorMiddleware } from './errors/error-middleware.ts';
+import { sessionMiddleware } from './middleware/session.ts';
+import { apiRouter } from './routes/index.ts';
+
+export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
+
+export interface CreateAppOptions {
+  sequelize?: Sequelize;
+  /** Alias of `sequelize` (DEVELOPERS.md writes createApp({ db, config })). */
+  db?: Sequelize;
+  config: Config;
+  /** Serves the client instead of dist/ (Vite middleware in dev). Mounted after /api. */
+  clientMiddleware?: RequestHandler;
+  /** Folder with the built client; default <repo>/dist. Served only when it holds index.html. */
+  distDir?: string;
+}
+
+export function createApp({ sequelize: given, db, config, clientMiddleware, distDir = DIST_DIR }: CreateAppOptions): Express {
+  const sequelize = given ?? db;
+  if (!sequelize) throw new Error('createApp needs { sequelize, config }');
+  if (!modelsBoundTo(sequelize)) initModels(sequelize);
+
+  const app = express();
+  app.disable('x-powered-by');
+  if (config.trustProxy > 0) app.set('trust proxy', config.trustProxy);
+
+  // Vite's dev HTML needs inline scripts; keep the strict default CSP everywhere else (STACK P3).
+  app.use(helmet(config.viteMiddleware ? { contentSecurityPolicy: false } : {}));
+
+  const api = express.Router();
+  // strict: false lets a bare 42 or "text" through to zod, which answers "send a JSON object".
+  api.use(express.json({ limit: '1mb', strict: false }));
+  api.use(sessionMiddleware(config));
+  api.use(apiRouter(config));
+  api.use(apiNotFound);
+  app.use('/api', api);
+
+  if (clientMiddleware) {
+    app.use(clientMiddleware);
+  } else if (!config.viteMiddleware && existsSync(join(distDir, 'index.html'))) {
+    const indexHtml = join(distDir, 'index.html');
+    app.use(express.static(distDir, { index: false }));
+    app.get('/{*splat}', (_req, res) => {
+      res.sendFile(indexHtml);
+    });
+  }
+
+  app.use(errorMiddleware);
+  return app;
+}

@@ -1,0 +1,85 @@
+/**
+ * Server configuration from the environment. Read once at start-up; tests pass their own `env`.
+ */
+import { randomBytes } from 'node:crypto';
+import { existsSync, mkdirSync, readFileSync, writeFileSync } from 'node:fs';
+import { dirname, join, resolve } from 'node:path';
+
+export interface Config {
+  port: number;
+  host: string;
+  dbPath: string;
+  dataDir: string;
+  production: boolean;
+  sessionSecret: string;
+  viteMiddleware: boolean;
+  /** Number of proxy hops to trust for X-Forwarded-For (TRUST_PROXY); 0 = none (STACK P10). */
+  trustProxy: number;
+  /** Failed sign-in attempts allowed per IP and window before 429 (LOGIN_RATE_LIMIT, default 30). */
+  loginRateLimit: number;
+  loginRateWindowMs: number;
+  /** Consecutive failed sign-ins that lock an account (REQUIREMENTS PW-03 default 5). */
+  lockoutThreshold: number;
+}
+
+export class ConfigError extends Error {
+  override name = 'ConfigError';
+}
+
+const MIN_SECRET_LENGTH = 32; // iron-session refuses shorter passwords
+
+function intFrom(env: NodeJS.ProcessEnv, key: string, fallback: number, min = 0): number {
+  const raw = env[key];
+  if (raw === undefined || raw === '') return fallback;
+  if (!/^\d+$/.test(raw) || Number(raw) < min) {
+    throw new ConfigError(`${key} must be a whole number ≥ ${min}, got "${raw}"`);
+  }
+  return Number(raw);
+}
+
+/** Reads `<dataDir>/session-secret`, creating it with 48 random bytes (hex) the first time. */
+function devSessionSecret(dataDir: string): string {
+  const file = join(dataDir, 'session-secret');
+  if (existsSync(file)) {
+    const stored = readFileSync(file, 'utf8').trim();
+    if (stored.length >= MIN_SECRET_LENGTH) return stored;
+  }
+  mkdirSync(dataDir, { recursive: true });
+  const secret = randomBytes(48).toString('hex');
+  writeFileSync(file, secret + '\n', { mode: 0o600 });
+  return secret;
+}
+
+export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
+  const production = env.NODE_ENV === 'production';
+  const dbPath = resolve(env.TAREBOOK_DB || './data/tarebook.sqlite');
+  const dataDir = dirname(dbPath);
+
+  let sessionSecret = env.SESSION_SECRET ?? '';
+  if (sessionSecret) {
+    if (sessionSecret.length < MIN_SECRET_LENGTH) {
+      throw new ConfigError(`SESSION_SECRET must be at least ${MIN_SECRET_LENGTH} characters long`);
+    }
+  } else if (production) {
+    throw new ConfigError(
+      'SESSION_SECRET is not set. In production set it to a random string of at least 32 characters, ' +
+        'e.g. the output of: node -e "console.log(require(\'crypto\').randomBytes(48).toString(\'hex\'))"',
+    );
+  } else {
+    sessionSecret = devSessionSecret(dataDir);
+  }
+
+  return {
+    port: intFrom(env, 'PORT', 3000),
+    host: env.HOST || '0.0.0.0',
+    dbPath,
+    dataDir,
+    production,
+    sessionSecret,
+    viteMiddleware: env.VITE_MIDDLEWARE === '1',
+    trustProxy: env.TRUST_PROXY && /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY ? 1 : 0,
+    loginRateLimit: intFrom(env, 'LOGIN_RATE_LIMIT', 30, 1),
+    loginRateWindowMs: 15 * 60 * 1000,
+    lockoutThreshold: intFrom(env, 'LOCKOUT_THRESHOLD', 5, 3),
+  };
+}

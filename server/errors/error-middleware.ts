@@ -1,0 +1,16 @@
+import type { ErrorRequestHandler, RequestHandler } from 'express';
+import { AppError } from './app-error.ts';
+import { toApiError } from './to-api-error.ts';
+
+/** Registered after the routers: any request under /api that no route matched. */
+export const apiNotFound: RequestHandler = (req, _res, next) => {
+  next(new AppError('not_found', 404, `No API route for ${req.method} ${req.originalUrl.split('?')[0]}`));
+};
+
+/** Registered last. Sends the API error body; logs unexpected errors with their stack (server side only). */
+export const errorMiddleware: ErrorRequestHandler = (err, req, res, next) => {
+  if (res.headersSent) return next(err);
+  const { status, body, unexpected } = toApiError(err);
+  if (unexpected) console.error(`[tarebook] ${req.method} ${req.originalUrl} failed:`, err);
+  res.status(status).json(body);
+};

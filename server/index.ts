@@ -1,0 +1,86 @@
+/**
+ * npm start: build the client if dist/ is missing, open and migrate the database, seed the demo lab
+ * into an empty non-production database, then listen. With VITE_MIDDLEWARE=1 (npm run dev) Vite
+ * serves the client from the same port (STACK P4).
+ */
+import { existsSync } from 'node:fs';
+import { createServer, type Server } from 'node:http';
+import type { AddressInfo } from 'node:net';
+import { join } from 'node:path';
+import type { RequestHandler } from 'express';
+import { createApp, DIST_DIR } from './app.ts';
+import { ConfigError, loadConfig, type Config } from './config.ts';
+import { migrateUp } from './db/migrate.ts';
+import { initModels, User } from './db/models/index.ts';
+import { openDatabase } from './db/sequelize.ts';
+
+async function main(): Promise<void> {
+  let config: Config;
+  try {
+    config = loadConfig();
+  } catch (err) {
+    if (err instanceof ConfigError) {
+      console.error(`Tarebook cannot start: ${err.message}`);
+      process.exit(1);
+    }
+    throw err;
+  }
+
+  if (!config.viteMiddleware && !existsSync(join(DIST_DIR, 'index.html'))) {
+    console.log('Building the client (dist/ is missing)…');
+    const { build } = await import('vite');
+    await build();
+  }
+
+  const sequelize = await openDatabase(config.dbPath);
+  const applied = await migrateUp(sequelize);
+  if (applied.length) console.log(`Applied migrations: ${applied.map((m) => m.name).join(', ')}`);
+  initModels(sequelize);
+
+  if (!config.production && (await User.count()) === 0) {
+    const { seedDemoLab } = await import('../seed/seed-demo-lab.ts');
+    const result = await seedDemoLab(sequelize);
+    if (result.seeded) console.log('Seeded the demo lab (Harbourside Water Laboratory); password for all demo accounts: bench-demo-2026');
+  }
+
+  const httpServer: Server = createServer();
+  let vite: { middlewares: RequestHandler; close(): Promise<void> } | undefined;
+  if (config.viteMiddleware) {
+    const { createServer: createViteServer } = await import('vite');
+    vite = (await createViteServer({
+      appType: 'spa',
+      server: { middlewareMode: true, ws: { server: httpServer } },
+    })) as unknown as typeof vite;
+  }
+
+  const app = createApp({ sequelize, config, clientMiddleware: vite?.middlewares });
+  httpServer.on('request', app);
+
+  await new Promise<void>((resolve, reject) => {
+    httpServer.once('error', reject);
+    httpServer.listen(config.port, config.host, () => resolve());
+  });
+  const { port } = httpServer.address() as AddressInfo;
+  console.log(`Tarebook listening on http://localhost:${port}`);
+
+  let closing = false;
+  const shutdown = async (signal: string) => {
+    if (closing) return;
+    closing = true;
+    console.log(`${signal} received, shutting down…`);
+    const force = setTimeout(() => process.exit(1), 10_000);
+    force.unref();
+    httpServer.closeIdleConnections?.();
+    await new Promise<void>((resolve) => httpServer.close(() => resolve()));
+    await vite?.close();
+    await sequelize.close();
+    process.exit(0);
+  };
+  process.on('SIGINT', () => void shutdown('SIGINT'));
+  process.on('SIGTERM', () => void shutdown('SIGTERM'));
+}
+
+main().catch((err) => {
+  console.error('Tarebook failed to start:', err);
+  process.exit(1);
+});

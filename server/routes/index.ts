@@ -1,0 +1,20 @@
+import { Router } from 'express';
+import type { Config } from '../config.ts';
+import { authRouter } from './auth.routes.ts';
+import { calcRouter } from './calc.routes.ts';
+import { healthRouter } from './health.routes.ts';
+import { inventoryRouter } from './inventory.routes.ts';
+import { settingsRouter } from './settings.routes.ts';
+import { usersRouter } from './users.routes.ts';
+
+/** Everything under /api. Each route states its role check (requireAuth / requireRole). */
+export function apiRouter(config: Config): Router {
+  const router = Router();
+  router.use(healthRouter());
+  router.use(authRouter(config));
+  router.use(usersRouter());
+  router.use(settingsRouter());
+  router.use(calcRouter());
+  router.use(inventoryRouter());
+  return router;
+}

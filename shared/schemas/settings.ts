@@ -1,0 +1,58 @@
+import { z } from 'zod';
+import Decimal from 'decimal.js';
+import { decimalInRange, decimalText } from './decimal-text.ts';
+
+export const ROUNDING_RULES = ['half-even', 'half-up'] as const;
+export type RoundingRule = (typeof ROUNDING_RULES)[number];
+
+function isTimeZone(tz: string): boolean {
+  try {
+    new Intl.DateTimeFormat('en-GB', { timeZone: tz });
+    return true;
+  } catch {
+    return false;
+  }
+}
+
+/**
+ * Default room conditions offered on a new weighing. The ranges are those of the CIPM-2007 air-density
+ * equation (15–27 °C, 600–1100 hPa, 0–100 % RH; from memory, check against the published paper).
+ */
+export const roomConditionsSchema = z.object({
+  temperatureC: decimalInRange('15', '27', 'Temperature must be between 15 and 27 °C'),
+  pressureHPa: decimalInRange('600', '1100', 'Pressure must be between 600 and 1100 hPa'),
+  relativeHumidityPct: decimalInRange('0', '100', 'Relative humidity must be between 0 and 100 %'),
+});
+export type RoomConditions = z.infer<typeof roomConditionsSchema>;
+
+export const labSettingsSchema = z.object({
+  labName: z.string({ error: 'Enter the laboratory name' }).trim().min(1, 'Enter the laboratory name').max(120, 'Use at most 120 characters'),
+  idPrefix: z
+    .string({ error: 'Enter an ID prefix' })
+    .trim()
+    .regex(/^[A-Z][A-Z0-9]{1,7}$/, 'Use 2 to 8 capital letters or digits, starting with a letter, e.g. HWL'),
+  timeZone: z.string({ error: 'Enter a time zone' }).refine(isTimeZone, 'Enter an IANA time zone, e.g. Europe/London'),
+  defaultRoomConditions: roomConditionsSchema,
+  /** Allowed deviation of an actual weighing from its planned mass, in percent of the target. */
+  readingWindowPct: decimalText().refine((s) => {
+    const d = new Decimal(s);
+    return d.gt(0) && d.lte(50);
+  }, 'Use a window greater than 0 and at most 50 %'),
+  roundingRule: z.enum(ROUNDING_RULES, { error: `Choose one of: ${ROUNDING_RULES.join(', ')}` }),
+});
+export type LabSettings = z.infer<typeof labSettingsSchema>;
+
+/** PUT /api/settings: any subset; `defaultRoomConditions` may itself be partial. */
+export const updateLabSettingsInputSchema = labSettingsSchema
+  .extend({ defaultRoomConditions: roomConditionsSchema.partial() })
+  .partial();
+export type UpdateLabSettingsInput = z.infer<typeof updateLabSettingsInputSchema>;
+
+export const DEFAULT_LAB_SETTINGS: LabSettings = {
+  labName: 'Harbourside Water Laboratory',
+  idPrefix: 'HWL',
+  timeZone: 'Europe/London',
+  defaultRoomConditions: { temperatureC: '20.0', pressureHPa: '1013', relativeHumidityPct: '50' },
+  readingWindowPct: '5',
+  roundingRule: 'half-even',
+};
