@@ -1,0 +1,45 @@
+import { createBrowserRouter } from 'react-router';
+import { AppShell } from './app-shell.tsx';
+import { RequireAuth, RequireRole } from './guards.tsx';
+import { RouteError } from '../components/errors/route-error.tsx';
+import { NotFound } from '../components/errors/not-found.tsx';
+import { SignInPage } from '../features/auth/sign-in-page.tsx';
+import { HomePage } from '../features/home/home-page.tsx';
+import { Spinner } from '../components/ui/feedback.tsx';
+
+/**
+ * Route table. The calculation page pulls in the metrology core (mf-parser, decimal.js), and the
+ * users page is admin-only, so both load on demand and stay out of the first bundle.
+ */
+export const router = createBrowserRouter([
+  { path: '/sign-in', Component: SignInPage, errorElement: <RouteError /> },
+  {
+    Component: RequireAuth,
+    errorElement: <RouteError />,
+    // Shown while a lazy page's code loads on the first visit (e.g. a reload on /calculate).
+    HydrateFallback: () => <Spinner label="Loading Tarebook…" />,
+    children: [
+      {
+        Component: AppShell,
+        children: [
+          { index: true, Component: HomePage },
+          {
+            path: 'calculate',
+            lazy: async () => ({ Component: (await import('../features/calculate/calculate-page.tsx')).CalculatePage }),
+          },
+          {
+            path: 'admin',
+            element: <RequireRole roles={['admin']} />,
+            children: [
+              {
+                path: 'users',
+                lazy: async () => ({ Component: (await import('../features/users/users-page.tsx')).UsersPage }),
+              },
+            ],
+          },
+          { path: '*', Component: NotFound },
+        ],
+      },
+    ],
+  },
+]);

@@ -1,0 +1,25 @@
+import { QueryClient } from '@tanstack/react-query';
+import { ApiError } from './api-client.ts';
+
+declare module '@tanstack/react-query' {
+  interface Register {
+    defaultError: ApiError;
+  }
+}
+
+/** Client and server errors (4xx) are answers, not glitches: retrying them only delays the message. */
+function shouldRetry(failureCount: number, error: unknown): boolean {
+  if (error instanceof ApiError && error.status >= 400 && error.status < 500) return false;
+  return failureCount < 1;
+}
+
+export function createQueryClient(): QueryClient {
+  return new QueryClient({
+    defaultOptions: {
+      queries: { staleTime: 30_000, retry: shouldRetry, refetchOnWindowFocus: false },
+      mutations: { retry: false },
+    },
+  });
+}
+
+export const queryClient = createQueryClient();
