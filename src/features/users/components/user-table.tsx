@@ -51,15 +51,13 @@ export function UserTable({ users, currentUserId }: { users: User[]; currentUser
     <div className="flex flex-col gap-3">
       {message ? <Banner tone={message.tone}>{message.text}</Banner> : null}
       <div className="overflow-x-auto rounded-xl border-2 border-line bg-card">
-        <table className="w-full min-w-[52rem] border-collapse text-left" data-testid="user-table">
+        <table className="w-full min-w-[42rem] border-collapse text-left" data-testid="user-table">
           <caption className="sr-only">User accounts</caption>
           <thead className="bg-slate-100 text-sm">
             <tr>
-              <th scope="col" className="px-4 py-3">Name</th>
-              <th scope="col" className="px-4 py-3">Email</th>
+              <th scope="col" className="px-4 py-3">Person</th>
               <th scope="col" className="px-4 py-3">Role</th>
-              <th scope="col" className="px-4 py-3">Status</th>
-              <th scope="col" className="px-4 py-3">Last sign-in</th>
+              <th scope="col" className="px-4 py-3">Status and last sign-in</th>
               <th scope="col" className="px-4 py-3">Actions</th>
             </tr>
           </thead>
@@ -74,13 +72,15 @@ export function UserTable({ users, currentUserId }: { users: User[]; currentUser
                       <span aria-hidden="true" className="flex size-9 shrink-0 items-center justify-center rounded-full bg-slate-100 text-sm font-bold">
                         {u.initials}
                       </span>
-                      <span className="font-semibold">
-                        {u.fullName}
-                        {self ? <span className="ml-1 text-sm font-normal text-ink-soft">(you)</span> : null}
+                      <span className="min-w-0">
+                        <span className="block font-semibold">
+                          {u.fullName}
+                          {self ? <span className="ml-1 text-sm font-normal text-ink-soft">(you)</span> : null}
+                        </span>
+                        <span className="block text-sm text-ink-soft [overflow-wrap:anywhere]">{u.email}</span>
                       </span>
                     </span>
                   </td>
-                  <td className="px-4 py-2 break-all">{u.email}</td>
                   <td className="px-4 py-2">
                     <label className="sr-only" htmlFor={`role-${u.id}`}>
                       Role of {u.fullName}
@@ -92,7 +92,7 @@ export function UserTable({ users, currentUserId }: { users: User[]; currentUser
                       disabled={busy || self}
                       title={self ? 'You cannot change your own role' : undefined}
                       onChange={(e) => changeRole(u, e.target.value as Role)}
-                      className="field-input min-w-40"
+                      className="field-input min-w-44"
                     >
                       {ROLES.map((r) => (
                         <option key={r} value={r}>
@@ -103,8 +103,10 @@ export function UserTable({ users, currentUserId }: { users: User[]; currentUser
                   </td>
                   <td className="px-4 py-2">
                     <StatusBadges user={u} />
+                    <span className="mt-1 block text-sm text-ink-soft">
+                      {u.lastLoginAt ? `Last sign-in ${formatDateTime(u.lastLoginAt)}` : 'Never signed in'}
+                    </span>
                   </td>
-                  <td className="px-4 py-2 text-sm">{formatDateTime(u.lastLoginAt)}</td>
                   <td className="px-4 py-2">
                     <span className="flex flex-wrap gap-2">
                       {u.locked ? (
