@@ -73,6 +73,10 @@ export function toApiError(err: unknown): ConvertedError {
     for (const item of err.errors ?? []) if (item.path) fields[item.path] = item.message;
     return { status: 400, body: body('Some values are not valid', 'validation_failed', fields), unexpected: false };
   }
+  // decimal.js only throws on text that is not a number, which comes from the request.
+  if (err instanceof Error && err.message.startsWith('[DecimalError]')) {
+    return { status: 400, body: body('A number in the request could not be read; use digits and a decimal point, e.g. 1.5', 'invalid_number'), unexpected: false };
+  }
   const client = httpClientError(err);
   if (client) {
     switch (client.type) {

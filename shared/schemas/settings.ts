@@ -1,6 +1,5 @@
 import { z } from 'zod';
-import Decimal from 'decimal.js';
-import { decimalInRange, decimalText } from './decimal-text.ts';
+import { decimalCheck, decimalInRange } from './decimal-text.ts';
 
 export const ROUNDING_RULES = ['half-even', 'half-up'] as const;
 export type RoundingRule = (typeof ROUNDING_RULES)[number];
@@ -34,10 +33,7 @@ export const labSettingsSchema = z.object({
   timeZone: z.string({ error: 'Enter a time zone' }).refine(isTimeZone, 'Enter an IANA time zone, e.g. Europe/London'),
   defaultRoomConditions: roomConditionsSchema,
   /** Allowed deviation of an actual weighing from its planned mass, in percent of the target. */
-  readingWindowPct: decimalText().refine((s) => {
-    const d = new Decimal(s);
-    return d.gt(0) && d.lte(50);
-  }, 'Use a window greater than 0 and at most 50 %'),
+  readingWindowPct: decimalCheck((d) => d.gt(0) && d.lte(50), 'Use a window greater than 0 and at most 50 %'),
   roundingRule: z.enum(ROUNDING_RULES, { error: `Choose one of: ${ROUNDING_RULES.join(', ')}` }),
 });
 export type LabSettings = z.infer<typeof labSettingsSchema>;

@@ -1,0 +1,112 @@
+// Permission matrix (REQUIREMENTS AC-02, DEVELOPERS.md "Roles are checked on the server"):
+// every API route × { signed out, chemist, technician, qa, admin } → expected status.
+// The table is checked against the routes Express actually registered, so a new route without a row fails.
+import type { Express } from 'express';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, userIdByEmail, type TestApp } from './helpers/test-app.ts';
+import { validCalcRequest } from './helpers/calc-request.ts';
+
+type Who = 'signedOut' | 'chemist' | 'technician' | 'qa' | 'admin';
+const WHO: Who[] = ['signedOut', 'chemist', 'technician', 'qa', 'admin'];
+
+interface Row {
+  method: 'get' | 'post' | 'put' | 'patch' | 'delete';
+  path: string; // Express pattern
+  /** roles that succeed; others get 403, signed out gets 401 */
+  allowed: 'public' | 'signedIn' | Exclude<Who, 'signedOut'>[];
+  ok: number;
+  body?: (who: Who) => unknown;
+}
+
+let t: TestApp;
+const cookies: Partial<Record<Who, string>> = {};
+let targetId: number;
+
+const ROWS: Row[] = [
+  { method: 'get', path: '/api/health', allowed: 'public', ok: 200 },
+  { method: 'post', path: '/api/auth/login', allowed: 'public', ok: 200, body: () => ({ email: DEMO.qa, password: DEMO_PASSWORD }) },
+  { method: 'post', path: '/api/auth/logout', allowed: 'public', ok: 204 },
+  { method: 'get', path: '/api/auth/me', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/users', allowed: ['admin'], ok: 200 },
+  {
+    method: 'post',
+    path: '/api/users',
+    allowed: ['admin'],
+    ok: 201,
+    body: (who) => ({ email: `new.${who}@harbourside.example`, fullName: 'New Analyst', initials: 'NA', role: 'chemist', password: 'long-enough-pass' }),
+  },
+  { method: 'get', path: '/api/users/:id', allowed: ['admin'], ok: 200 },
+  { method: 'patch', path: '/api/users/:id', allowed: ['admin'], ok: 200, body: () => ({ fullName: 'Jonas Vireo' }) },
+  { method: 'post', path: '/api/users/:id/unlock', allowed: ['admin'], ok: 200 },
+  { method: 'post', path: '/api/users/:id/password', allowed: ['admin'], ok: 200, body: () => ({ password: 'another-long-pass' }) },
+  { method: 'get', path: '/api/settings', allowed: 'signedIn', ok: 200 },
+  { method: 'put', path: '/api/settings', allowed: ['admin'], ok: 200, body: () => ({ readingWindowPct: '5' }) },
+  { method: 'post', path: '/api/calc/preparation', allowed: 'signedIn', ok: 200, body: () => validCalcRequest() },
+  { method: 'get', path: '/api/materials', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/balances', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/volumetric-ware', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/solvents', allowed: 'signedIn', ok: 200 },
+];
+
+function expected(row: Row, who: Who): number {
+  if (row.allowed === 'public') return row.ok;
+  if (who === 'signedOut') return 401;
+  if (row.allowed === 'signedIn') return row.ok;
+  return row.allowed.includes(who) ? row.ok : 403;
+}
+
+/** METHOD + path of every route registered in the app (walks nested routers; uses mount paths). */
+function registeredRoutes(app: Express): string[] {
+  const out: string[] = [];
+  const walk = (stack: any[], prefix: string) => {
+    for (const layer of stack) {
+      if (layer.route) {
+        for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${prefix}${layer.route.path}`);
+      } else if (layer.handle?.stack) {
+        const mount = typeof layer.rawPath === 'string' && layer.rawPath !== '/' ? layer.rawPath : '';
+        walk(layer.handle.stack, prefix + mount);
+      }
+    }
+  };
+  walk((app as any).router.stack, '');
+  return out.filter((r) => r.includes(' /api')).sort();
+}
+
+beforeAll(async () => {
+  t = await makeTestApp();
+  cookies.chemist = await sessionCookie(t.app, DEMO.chemist);
+  cookies.technician = await sessionCookie(t.app, DEMO.technician);
+  cookies.qa = await sessionCookie(t.app, DEMO.qa);
+  cookies.admin = await sessionCookie(t.app, DEMO.admin);
+  targetId = await userIdByEmail(t.app, cookies.admin, DEMO.inactive);
+});
+afterAll(() => t.close());
+
+describe('permission matrix', () => {
+  it('when the app is built, then the table covers every registered /api route', () => {
+    const table = ROWS.map((r) => `${r.method.toUpperCase()} ${r.path}`).sort();
+    expect(table).toEqual(registeredRoutes(t.app));
+  });
+
+  const cases = ROWS.flatMap((row) => WHO.map((who) => [`${row.method.toUpperCase()} ${row.path}`, who, row] as const));
+  it.each(cases)('%s as %s', async (_name, who, row) => {
+    const url = row.path.replace(':id', String(targetId));
+    let req = request(t.app)[row.method](url);
+    if (who !== 'signedOut') req = req.set('Cookie', cookies[who]!);
+    if (row.body) req = req.send(row.body(who) as object);
+    const res = await req;
+    const want = expected(row, who);
+    expect(res.status, JSON.stringify(res.body)).toBe(want);
+    if (want === 403) {
+      expect(res.body.error.code).toBe('forbidden');
+      expect(res.body.error.message).toMatch(/needs the .* role/);
+    }
+    if (want === 401) expect(res.body.error.code).toBe('unauthenticated');
+  });
+
+  it('then no route deletes users (accounts are deactivated, never deleted)', async () => {
+    const res = await request(t.app).delete(`/api/users/${targetId}`).set('Cookie', cookies.admin!);
+    expect(res.status).toBe(404);
+  });
+});

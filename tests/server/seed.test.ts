@@ -1,0 +1,110 @@
+// The demo lab seed: refused in production, plausible and self-consistent data, decimals kept as typed.
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import Decimal from 'decimal.js';
+import request from 'supertest';
+import { afterAll, beforeAll, describe, expect, it } from 'vitest';
+import { migrateUp } from '../../server/db/migrate.ts';
+import { openDatabase } from '../../server/db/sequelize.ts';
+import { balanceSchema, referenceMaterialSchema, solventSchema, volumetricWareSchema } from '../../shared/schemas/inventory.ts';
+import { demoBalances } from '../../seed/demo-data.ts';
+import { SeedRefusedError, seedDemoLab } from '../../seed/seed-demo-lab.ts';
+import { DEMO, demoPasswordHash, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+
+let t: TestApp;
+let qa: string;
+beforeAll(async () => {
+  t = await makeTestApp();
+  qa = await sessionCookie(t.app, DEMO.qa);
+});
+afterAll(() => t.close());
+
+describe('seedDemoLab', () => {
+  it('when NODE_ENV is production, then it refuses and writes nothing', async () => {
+    const dir = mkdtempSync(join(tmpdir(), 'tarebook-seed-'));
+    const sequelize = await openDatabase(join(dir, 's.sqlite'));
+    try {
+      await migrateUp(sequelize);
+      await expect(seedDemoLab(sequelize, { env: { NODE_ENV: 'production' } })).rejects.toThrow(SeedRefusedError);
+      const [[row]] = (await sequelize.query('SELECT COUNT(*) AS n FROM users')) as [{ n: number }[], unknown];
+      expect(row!.n).toBe(0);
+    } finally {
+      await sequelize.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
+  });
+
+  it('when the database already has users, then it does nothing', async () => {
+    const result = await seedDemoLab(t.sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash() });
+    expect(result).toEqual({ seeded: false, reason: 'The database already has users' });
+  });
+
+  it('then each balance minimum weight follows USP <41>: m_min = 2000 · max(s, 0.41 · d)', () => {
+    // Source: USP <41> as summarised in REQUIREMENTS EQ-04 [V there].
+    for (const b of demoBalances) {
+      const s = new Decimal(b.repeatabilitySdMg);
+      const d041 = new Decimal(b.readabilityMg).times('0.41');
+      const mMin = Decimal.max(s, d041).times(2000);
+      expect(mMin.eq(b.minWeightMg), `${b.identifier}: ${mMin.toString()} mg`).toBe(true);
+    }
+  });
+});
+
+describe('read-only inventory lists', () => {
+  it('GET /api/balances: decimal strings exactly as stored, "8.0" keeps its zero', async () => {
+    const res = await request(t.app).get('/api/balances').set('Cookie', qa);
+    expect(res.status).toBe(200);
+    for (const item of res.body.items) expect(balanceSchema.strict().safeParse(item).success, JSON.stringify(item)).toBe(true);
+    const a1 = res.body.items.find((b: { identifier: string }) => b.identifier === 'BAL-A1');
+    expect(a1).toMatchObject({
+      capacityG: '220',
+      readabilityMg: '0.1',
+      repeatabilitySdMg: '0.08',
+      minWeightMg: '160',
+      weightDensityGPerMl: '8.0',
+      calibratedOn: '2026-06-15',
+      calibrationDueOn: '2027-06-15',
+      status: 'in_service',
+    });
+    expect(res.body.items.map((b: { identifier: string }) => b.identifier)).toEqual(['BAL-A1', 'BAL-A2', 'BAL-SM1', 'BAL-T1']);
+  });
+
+  it('GET /api/materials: lots with purity, U and k, density, GHS codes, one expired and one quarantined', async () => {
+    const res = await request(t.app).get('/api/materials').set('Cookie', qa);
+    expect(res.status).toBe(200);
+    for (const item of res.body.items) expect(referenceMaterialSchema.strict().safeParse(item).success, JSON.stringify(item)).toBe(true);
+    const lead = res.body.items.find((m: { formula: string }) => m.formula === 'Pb(NO3)2');
+    expect(lead).toMatchObject({
+      grade: 'CRM',
+      purity: { value: '0.9995', expandedUncertainty: '0.0004', k: '2', basis: 'dried' },
+      densityGPerMl: '4.53',
+      ghsHazardStatements: ['H272', 'H302', 'H332', 'H360Df', 'H373', 'H410'],
+      ghsPictograms: ['GHS03', 'GHS07', 'GHS08', 'GHS09'],
+      analytes: [{ name: 'lead', formula: 'Pb' }],
+    });
+    const today = new Date().toISOString().slice(0, 10);
+    expect(res.body.items.some((m: { expiresOn: string }) => m.expiresOn < today)).toBe(true);
+    expect(res.body.items.some((m: { status: string }) => m.status === 'quarantined')).toBe(true);
+  });
+
+  it('GET /api/volumetric-ware: class A flasks and pipettes with ISO tolerances as strings', async () => {
+    const res = await request(t.app).get('/api/volumetric-ware').set('Cookie', qa);
+    expect(res.status).toBe(200);
+    for (const item of res.body.items) expect(volumetricWareSchema.strict().safeParse(item).success, JSON.stringify(item)).toBe(true);
+    const byId = Object.fromEntries(res.body.items.map((w: { identifier: string }) => [w.identifier, w]));
+    // ISO 1042 / ISO 648 class A tolerances (from memory, as in seed/demo-data.ts)
+    expect(byId['VF-100-01']).toMatchObject({ kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', material: 'borosilicate 3.3' });
+    expect(byId['VF-1000-01']).toMatchObject({ toleranceMl: '0.40' });
+    expect(byId['BP-10-01']).toMatchObject({ kind: 'bulb_pipette', class: 'A', toleranceMl: '0.020' });
+    expect(byId['PP-1000-01']).toMatchObject({ kind: 'piston_pipette', class: 'n/a' });
+  });
+
+  it('GET /api/solvents: water, dilute nitric acid and methanol with densities at 20 °C', async () => {
+    const res = await request(t.app).get('/api/solvents').set('Cookie', qa);
+    expect(res.status).toBe(200);
+    for (const item of res.body.items) expect(solventSchema.strict().safeParse(item).success, JSON.stringify(item)).toBe(true);
+    const meoh = res.body.items.find((s: { name: string }) => s.name === 'Methanol');
+    expect(meoh).toMatchObject({ density20cGPerMl: '0.7914', expansionCoefficientPerK: '0.0012' });
+  });
+});
