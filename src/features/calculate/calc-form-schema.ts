@@ -182,7 +182,7 @@ export function formFieldFor(path: string | undefined, values: Pick<CalcFormOut,
 }
 
 /** The request exactly as the API and the core take it; every number is the string the user typed. */
-export function toRequest(v: CalcFormOut) {
+export function toRequest(v: CalcFormOut, rounding?: 'half-even' | 'half-up') {
   const purity =
     v.material.purity.mode === 'expanded'
       ? {
@@ -221,6 +221,37 @@ export function toRequest(v: CalcFormOut) {
     ...(v.weighing.reading.value !== ''
       ? { weighing: { reading: { value: v.weighing.reading.value, unit: v.weighing.reading.unit } } }
       : {}),
+    ...(rounding ? { rounding } : {}),
   };
 }
 export type FormRequest = ReturnType<typeof toRequest>;
+
+/** Short names for the error summary ("Purity uncertainty: Enter a number…"). */
+export const FIELD_LABELS: Record<FormField, string> = {
+  'target.value': 'Target concentration',
+  'target.unit': 'Concentration unit',
+  'volume.value': 'Final volume',
+  'volume.unit': 'Volume unit',
+  'volume.standardUncertainty': 'Volume uncertainty',
+  'material.formula': 'Compound formula',
+  'material.analyteFormula': 'Analyte formula',
+  'material.purity.mode': 'Purity uncertainty type',
+  'material.purity.value': 'Purity',
+  'material.purity.standardUncertainty': 'Purity standard uncertainty',
+  'material.purity.expandedUncertainty': 'Purity expanded uncertainty',
+  'material.purity.k': 'Coverage factor k',
+  'material.density.value': 'Density of the solid',
+  'material.density.unit': 'Density unit',
+  'balance.weightDensity.value': 'Calibration-weight density',
+  'balance.weightDensity.unit': 'Weight density unit',
+  'balance.standardUncertainty.value': 'Reading uncertainty',
+  'balance.standardUncertainty.unit': 'Reading uncertainty unit',
+  'air.mode': 'Air density source',
+  'air.temperatureC': 'Temperature',
+  'air.pressureHPa': 'Pressure',
+  'air.relativeHumidityPct': 'Relative humidity',
+  'air.density.value': 'Air density',
+  'air.density.unit': 'Air density unit',
+  'weighing.reading.value': 'Balance reading',
+  'weighing.reading.unit': 'Reading unit',
+};

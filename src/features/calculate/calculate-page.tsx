@@ -1,4 +1,5 @@
 import { useMemo, type ReactNode } from 'react';
+import { useQuery } from '@tanstack/react-query';
 import { get, useForm, useWatch, type FieldErrors } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Button } from '../../components/ui/button.tsx';
@@ -22,6 +23,7 @@ import { ResultsPanel } from './components/results-panel.tsx';
 import { ServerCheck } from './components/server-check.tsx';
 import { BudgetTable } from './components/budget-table.tsx';
 import { AimBar } from './components/aim-bar.tsx';
+import { settingsQueries } from './api/settings-queries.ts';
 
 const opts = (list: readonly string[]) => list.map((u) => ({ value: u, label: u }));
 
@@ -50,7 +52,19 @@ export function CalculatePage() {
 
   const watched = useWatch({ control }) as CalcFormIn;
   const values = useDebouncedValue(watched, 150);
-  const live = useMemo(() => runLiveCalculation(values), [values]);
+  // The lab's rounding rule (half-even or half-up) applies to the reported result; until the settings
+  // arrive the core's default (half-even) is used.
+  const settings = useQuery(settingsQueries.detail());
+  const rounding = settings.data?.roundingRule;
+  const live = useMemo(() => runLiveCalculation(values, rounding), [values, rounding]);
+  const useLabConditions = () => {
+    const d = settings.data?.defaultRoomConditions;
+    if (!d) return;
+    form.setValue('air.mode', 'conditions');
+    form.setValue('air.temperatureC', d.temperatureC, { shouldValidate: true });
+    form.setValue('air.pressureHPa', d.pressureHPa, { shouldValidate: true });
+    form.setValue('air.relativeHumidityPct', d.relativeHumidityPct, { shouldValidate: true });
+  };
 
   const liveFields = live.status === 'ok' ? {} : live.fields;
   /** The message under a field: the form's own check first, then the core's or the shared schema's. */
@@ -67,6 +81,7 @@ export function CalculatePage() {
       <PageHeader title="Calculate a standard">
         Weigh a reference material, dissolve it to volume, and get the true concentration after air-buoyancy correction,
         with its uncertainty. Results update as you type and nothing is saved.
+        {rounding ? ` Results are rounded ${rounding === 'half-up' ? 'half up' : 'half to even'}, as set for the lab.` : ''}
       </PageHeader>
 
       <CautionBox>
@@ -207,6 +222,14 @@ export function CalculatePage() {
                   registration={register('air.relativeHumidityPct')}
                   error={err('air.relativeHumidityPct')}
                 />
+                {settings.data ? (
+                  <div className="flex items-end">
+                    <Button variant="secondary" data-testid="use-lab-conditions" onClick={useLabConditions} className="w-full">
+                      Use the lab&apos;s defaults ({settings.data.defaultRoomConditions.temperatureC} °C,{' '}
+                      {settings.data.defaultRoomConditions.pressureHPa} hPa)
+                    </Button>
+                  </div>
+                ) : null}
               </>
             ) : (
               <>

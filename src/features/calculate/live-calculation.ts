@@ -28,11 +28,11 @@ function collect(issues: readonly { path: readonly PropertyKey[]; message: strin
   return { fields, general };
 }
 
-export function runLiveCalculation(values: CalcFormIn): LiveResult {
+export function runLiveCalculation(values: CalcFormIn, rounding?: 'half-even' | 'half-up'): LiveResult {
   const form = calcFormSchema.safeParse(values);
   if (!form.success) return { status: 'invalid', ...collect(form.error.issues, values) };
 
-  const request = toRequest(form.data);
+  const request = toRequest(form.data, rounding);
   const parsed = calcPreparationRequestSchema.safeParse(request);
   if (!parsed.success) return { status: 'invalid', ...collect(parsed.error.issues, values) };
 

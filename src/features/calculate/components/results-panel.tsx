@@ -4,6 +4,7 @@ import type { PreparationView, SigFigView } from '../result-types.ts';
 import { fixed, sig } from '../format-result.ts';
 import { fieldId } from '../../../components/ui/field.tsx';
 import type { LiveResult } from '../live-calculation.ts';
+import { FIELD_LABELS, type FormField } from '../calc-form-schema.ts';
 
 function Stat({ label, value, unit, testId, hint }: { label: string; value: string; unit?: string; testId: string; hint?: ReactNode }) {
   return (
@@ -57,8 +58,9 @@ export function ResultsPanel({ live, readingTyped }: { live: LiveResult; reading
           {entries.map(([field, msg]) => (
             <li key={field}>
               <a href={`#${fieldId(field)}`} className="font-semibold text-brass-600 underline underline-offset-2">
-                {msg}
+                {FIELD_LABELS[field as FormField] ?? field}
               </a>
+              : {msg}
             </li>
           ))}
           {live.general.map((g) => (
