@@ -3,16 +3,28 @@
  * into an empty non-production database, then listen. With VITE_MIDDLEWARE=1 (npm run dev) Vite
  * serves the client from the same port (STACK P4).
  */
+import { spawnSync } from 'node:child_process';
 import { existsSync } from 'node:fs';
 import { createServer, type Server } from 'node:http';
 import type { AddressInfo } from 'node:net';
-import { join } from 'node:path';
+import { dirname, join } from 'node:path';
 import type { RequestHandler } from 'express';
 import { createApp, DIST_DIR } from './app.ts';
 import { ConfigError, loadConfig, type Config } from './config.ts';
 import { migrateUp } from './db/migrate.ts';
 import { initModels, User } from './db/models/index.ts';
 import { openDatabase } from './db/sequelize.ts';
+
+/**
+ * Builds the client in a child process: Vite's in-process build() sets NODE_ENV=production for the
+ * whole process, which would switch the server to production mode (Secure cookies, no demo seed).
+ */
+function buildClient(): void {
+  const root = dirname(DIST_DIR);
+  const viteBin = join(root, 'node_modules', 'vite', 'bin', 'vite.js');
+  const run = spawnSync(process.execPath, [viteBin, 'build'], { cwd: root, stdio: 'inherit' });
+  if (run.status !== 0) throw new Error(`the client build failed (vite build exited with ${run.status ?? run.signal})`);
+}
 
 async function main(): Promise<void> {
   let config: Config;
@@ -28,8 +40,7 @@ async function main(): Promise<void> {
 
   if (!config.viteMiddleware && !existsSync(join(DIST_DIR, 'index.html'))) {
     console.log('Building the client (dist/ is missing)…');
-    const { build } = await import('vite');
-    await build();
+    buildClient();
   }
 
   const sequelize = await openDatabase(config.dbPath);
