@@ -5,7 +5,7 @@ import type { Config } from '../config.ts';
 import { toApiError } from '../errors/to-api-error.ts';
 import { AppError } from '../errors/app-error.ts';
 import { requireAuth } from '../middleware/session.ts';
-import { signIn } from '../services/auth.service.ts';
+import { signIn, signOut } from '../services/auth.service.ts';
 
 export function authRouter(config: Config): Router {
   const router = Router();
@@ -34,7 +34,8 @@ export function authRouter(config: Config): Router {
     res.json({ user });
   });
 
-  router.post('/auth/logout', (req, res) => {
+  router.post('/auth/logout', async (req, res) => {
+    await signOut(req.session.userId);
     req.session.destroy();
     res.status(204).end();
   });

@@ -12,7 +12,7 @@ export function settingsRouter(): Router {
 
   router.put('/settings', requireRole('admin'), async (req, res) => {
     const input = updateLabSettingsInputSchema.parse(req.body);
-    res.json(await updateSettings(input));
+    res.json(await updateSettings(input, req.user!));
   });
 
   return router;

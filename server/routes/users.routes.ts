@@ -14,7 +14,7 @@ export function usersRouter(): Router {
 
   router.post('/users', adminOnly, async (req, res) => {
     const input = createUserInputSchema.parse(req.body);
-    res.status(201).json({ user: await users.createUser(input) });
+    res.status(201).json({ user: await users.createUser(input, req.user!) });
   });
 
   router.get('/users/:id', adminOnly, async (req, res) => {
@@ -24,17 +24,17 @@ export function usersRouter(): Router {
   router.patch('/users/:id', adminOnly, async (req, res) => {
     const id = parseId(req.params.id, 'User');
     const input = updateUserInputSchema.parse(req.body);
-    res.json({ user: await users.updateUser(id, input, req.user!.id) });
+    res.json({ user: await users.updateUser(id, input, req.user!) });
   });
 
   router.post('/users/:id/unlock', adminOnly, async (req, res) => {
-    res.json({ user: await users.unlockUser(parseId(req.params.id, 'User')) });
+    res.json({ user: await users.unlockUser(parseId(req.params.id, 'User'), req.user!) });
   });
 
   router.post('/users/:id/password', adminOnly, async (req, res) => {
     const id = parseId(req.params.id, 'User');
     const { password } = setPasswordInputSchema.parse(req.body);
-    res.json({ user: await users.setUserPassword(id, password) });
+    res.json({ user: await users.setUserPassword(id, password, req.user!) });
   });
 
   return router;

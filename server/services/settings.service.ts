@@ -5,10 +5,13 @@ import {
   type LabSettings,
   type UpdateLabSettingsInput,
 } from '../../shared/schemas/settings.ts';
+import type { Transaction } from 'sequelize';
 import { Setting } from '../db/models/index.ts';
+import { diffFields, writeTransaction } from '../db/transaction.ts';
+import { recordAudit } from './audit.service.ts';
 
-export async function getSettings(): Promise<LabSettings> {
-  const rows = await Setting.findAll();
+export async function getSettings(transaction?: Transaction): Promise<LabSettings> {
+  const rows = await Setting.findAll({ transaction });
   const stored = Object.fromEntries(rows.map((r) => [r.key, r.value]));
   const merged = { ...DEFAULT_LAB_SETTINGS, ...stored } as Record<string, unknown>;
   merged.defaultRoomConditions = {
@@ -26,18 +29,32 @@ export async function getSettings(): Promise<LabSettings> {
   return fixed as LabSettings;
 }
 
-export async function updateSettings(input: UpdateLabSettingsInput): Promise<LabSettings> {
-  const current = await getSettings();
-  const next: LabSettings = labSettingsSchema.parse({
-    ...current,
-    ...input,
-    defaultRoomConditions: { ...current.defaultRoomConditions, ...(input.defaultRoomConditions ?? {}) },
-  });
-  const sequelize = Setting.sequelize!;
-  await sequelize.transaction(async (transaction) => {
+/**
+ * Saves the given keys and records one `setting_change` entry per key that changed, with the old and new
+ * value (room conditions field by field), in the same transaction (REQUIREMENTS AT-01, AT-08).
+ */
+export async function updateSettings(
+  input: UpdateLabSettingsInput,
+  actor: { id: number; fullName: string },
+): Promise<LabSettings> {
+  return writeTransaction(async (transaction) => {
+    const current = await getSettings(transaction);
+    const next: LabSettings = labSettingsSchema.parse({
+      ...current,
+      ...input,
+      defaultRoomConditions: { ...current.defaultRoomConditions, ...(input.defaultRoomConditions ?? {}) },
+    });
     for (const key of Object.keys(input) as (keyof LabSettings)[]) {
-      await Setting.upsert({ key, value: next[key], updatedAt: new Date().toISOString() }, { transaction });
+      const oldValue = current[key];
+      const newValue = next[key];
+      const changes =
+        key === 'defaultRoomConditions'
+          ? diffFields(current.defaultRoomConditions, next.defaultRoomConditions).map((c) => ({ ...c, field: `${key}.${c.field}` }))
+          : diffFields({ [key]: oldValue }, { [key]: newValue });
+      if (changes.length === 0) continue;
+      await Setting.upsert({ key, value: newValue, updatedAt: new Date().toISOString() }, { transaction });
+      await recordAudit({ actor, action: 'setting_change', entity: 'setting', entityId: key, changes }, transaction);
     }
+    return next;
   });
-  return next;
 }
