@@ -1,5 +1,6 @@
 import { Router } from 'express';
 import type { Config } from '../config.ts';
+import { auditRouter } from './audit.routes.ts';
 import { authRouter } from './auth.routes.ts';
 import { calcRouter } from './calc.routes.ts';
 import { healthRouter } from './health.routes.ts';
@@ -16,5 +17,6 @@ export function apiRouter(config: Config): Router {
   router.use(settingsRouter());
   router.use(calcRouter());
   router.use(inventoryRouter());
+  router.use(auditRouter());
   return router;
 }

@@ -27,6 +27,7 @@ import { col, fn, Op, QueryTypes, where as sequelizeWhere, type Transaction, typ
 import type {
   AuditChange,
   AuditEntryDto,
+  AuditFilter,
   AuditListQuery,
   AuditPage,
   AuditVerifyResult,
@@ -280,4 +281,68 @@ export async function* allAudit(query: Omit<AuditListQuery, 'page' | 'pageSize'>
 export async function recordTrail(entity: string, entityId: string): Promise<AuditEntryDto[]> {
   const rows = await AuditEntry.findAll({ where: { entity, entityId }, order: [['id', 'ASC']] });
   return rows.map(toDto);
+}
+
+// ---------------------------------------------------------------------------------------------- CSV
+
+export const AUDIT_CSV_COLUMNS = [
+  'id',
+  'occurred_at_utc',
+  'actor_id',
+  'actor_name',
+  'action',
+  'entity',
+  'entity_id',
+  'changes',
+  'reason',
+  'prev_hash',
+  'hash',
+] as const;
+
+/**
+ * One CSV field (RFC 4180 §2): quoted when it holds a comma, a double quote, CR or LF, or leading or
+ * trailing spaces; quotes doubled. Values are written exactly as stored (no formula escaping, which
+ * would alter the record); open the file as text in a spreadsheet.
+ */
+export function csvField(value: unknown): string {
+  const s = value === null || value === undefined ? '' : typeof value === 'string' ? value : canonicalJson(value);
+  return /[",\r\n]|^\s|\s$/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
+}
+
+export function csvLine(values: unknown[]): string {
+  return `${values.map(csvField).join(',')}\r\n`;
+}
+
+/** One CSV line per entry; `changes` is the canonical JSON that was hashed, so the chain can be re-checked. */
+export function auditCsvLine(e: AuditEntryDto): string {
+  return csvLine([
+    e.id,
+    e.occurredAt,
+    e.actorId,
+    e.actorName,
+    e.action,
+    e.entity,
+    e.entityId,
+    canonicalJson(e.changes),
+    e.reason,
+    e.prevHash,
+    e.hash,
+  ]);
+}
+
+/** Records that the trail was exported and with which filters (REQUIREMENTS AT-01: exports are audited). */
+export async function recordExport(actor: { id: number; fullName: string }, filter: AuditFilter): Promise<void> {
+  const used = Object.entries(filter).filter(([, v]) => v !== undefined);
+  await writeTransaction((t) =>
+    recordAudit(
+      {
+        actor,
+        action: 'export',
+        entity: 'audit_trail',
+        entityId: null,
+        changes: used.map(([field, value]) => ({ field: `filter.${field}`, oldValue: null, newValue: value })),
+      },
+      t,
+    ),
+  );
 }

@@ -47,6 +47,10 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/balances', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/volumetric-ware', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/solvents', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/audit', allowed: ['qa', 'admin'], ok: 200 },
+  { method: 'get', path: '/api/audit/export.csv', allowed: ['qa', 'admin'], ok: 200 },
+  { method: 'post', path: '/api/audit/verify', allowed: ['qa', 'admin'], ok: 200 },
+  { method: 'get', path: '/api/audit/records/:entity/:entityId', allowed: 'signedIn', ok: 200 },
 ];
 
 function expected(row: Row, who: Who): number {
@@ -91,7 +95,7 @@ describe('permission matrix', () => {
 
   const cases = ROWS.flatMap((row) => WHO.map((who) => [`${row.method.toUpperCase()} ${row.path}`, who, row] as const));
   it.each(cases)('%s as %s', async (_name, who, row) => {
-    const url = row.path.replace(':id', String(targetId));
+    const url = row.path.replace(':entity/:entityId', 'preparation/1').replace(':id', String(targetId));
     let req = request(t.app)[row.method](url);
     if (who !== 'signedOut') req = req.set('Cookie', cookies[who]!);
     if (row.body) req = req.send(row.body(who) as object);
