@@ -3,6 +3,7 @@ import type { Config } from '../config.ts';
 import { auditRouter } from './audit.routes.ts';
 import { authRouter } from './auth.routes.ts';
 import { calcRouter } from './calc.routes.ts';
+import { certificatesRouter } from './certificates.routes.ts';
 import { healthRouter } from './health.routes.ts';
 import { inventoryRouter } from './inventory.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
@@ -17,6 +18,7 @@ export function apiRouter(config: Config): Router {
   router.use(settingsRouter());
   router.use(calcRouter());
   router.use(inventoryRouter());
+  router.use(certificatesRouter(config));
   router.use(auditRouter());
   return router;
 }

@@ -22,6 +22,8 @@ const options = (sequelize: Sequelize, tableName: string, modelName: string) => 
   timestamps: false,
 });
 
+const retiredAttributes = () => ({ retiredAt: optionalText(), retiredReason: optionalText() });
+
 export interface Analyte {
   name: string;
   formula: string;
@@ -51,6 +53,11 @@ export class ReferenceMaterial extends Model<InferAttributes<ReferenceMaterial>,
   declare ghsHazardStatements: string[];
   declare ghsPictograms: string[];
   declare status: (typeof LOT_STATUSES)[number];
+  /** Who accepted the quarantined lot, and when (UTC ISO). */
+  declare acceptedById: CreationOptional<number | null>;
+  declare acceptedAt: CreationOptional<string | null>;
+  declare retiredAt: CreationOptional<string | null>;
+  declare retiredReason: CreationOptional<string | null>;
   declare createdAt: CreationOptional<string>;
   declare updatedAt: CreationOptional<string>;
 }
@@ -71,7 +78,13 @@ export class Balance extends Model<InferAttributes<Balance>, InferCreationAttrib
   declare calibrationUncertaintyMg: string | null;
   declare calibrationUncertaintyK: string | null;
   declare weightDensity: CreationOptional<string>;
+  /** d at the time m_min was determined (with s, safety factor and date). */
+  declare minWeightReadabilityMg: CreationOptional<string | null>;
+  /** true when the server computed minWeightMg (USP <41>) rather than storing an entered value. */
+  declare minWeightComputed: CreationOptional<boolean>;
   declare status: (typeof BALANCE_STATUSES)[number];
+  declare retiredAt: CreationOptional<string | null>;
+  declare retiredReason: CreationOptional<string | null>;
   declare createdAt: CreationOptional<string>;
   declare updatedAt: CreationOptional<string>;
 }
@@ -86,6 +99,8 @@ export class VolumetricWare extends Model<InferAttributes<VolumetricWare>, Infer
   declare toleranceMl: string | null;
   declare material: string | null;
   declare status: (typeof WARE_STATUSES)[number];
+  declare retiredAt: CreationOptional<string | null>;
+  declare retiredReason: CreationOptional<string | null>;
   declare createdAt: CreationOptional<string>;
   declare updatedAt: CreationOptional<string>;
 }
@@ -99,6 +114,8 @@ export class Solvent extends Model<InferAttributes<Solvent>, InferCreationAttrib
   declare expansionCoefficient: string | null;
   declare expiresOn: string | null;
   declare status: (typeof LOT_STATUSES)[number];
+  declare retiredAt: CreationOptional<string | null>;
+  declare retiredReason: CreationOptional<string | null>;
   declare createdAt: CreationOptional<string>;
   declare updatedAt: CreationOptional<string>;
 }
@@ -129,6 +146,9 @@ export function initInventory(sequelize: Sequelize) {
       ghsHazardStatements: jsonText<string[]>('ghsHazardStatements', []),
       ghsPictograms: jsonText<string[]>('ghsPictograms', []),
       status: oneOf(LOT_STATUSES) as never,
+      acceptedById: { type: DataTypes.INTEGER, allowNull: true },
+      acceptedAt: optionalText(),
+      ...retiredAttributes(),
       ...timestampAttributes(),
     },
     options(sequelize, 'reference_materials', 'ReferenceMaterial'),
@@ -151,7 +171,10 @@ export function initInventory(sequelize: Sequelize) {
       calibrationUncertaintyMg: optionalText(),
       calibrationUncertaintyK: optionalText(),
       weightDensity: { type: DataTypes.TEXT, allowNull: false, defaultValue: '8.0' },
+      minWeightReadabilityMg: optionalText(),
+      minWeightComputed: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       status: oneOf(BALANCE_STATUSES) as never,
+      ...retiredAttributes(),
       ...timestampAttributes(),
     },
     options(sequelize, 'balances', 'Balance'),
@@ -167,6 +190,7 @@ export function initInventory(sequelize: Sequelize) {
       toleranceMl: optionalText(),
       material: optionalText(),
       status: oneOf(WARE_STATUSES) as never,
+      ...retiredAttributes(),
       ...timestampAttributes(),
     },
     options(sequelize, 'volumetric_ware', 'VolumetricWare'),
@@ -182,6 +206,7 @@ export function initInventory(sequelize: Sequelize) {
       expansionCoefficient: optionalText(),
       expiresOn: optionalText(),
       status: oneOf(LOT_STATUSES) as never,
+      ...retiredAttributes(),
       ...timestampAttributes(),
     },
     options(sequelize, 'solvents', 'Solvent'),
