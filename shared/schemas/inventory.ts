@@ -278,11 +278,14 @@ function purityRules(p: Partial<Record<'value' | 'expandedUncertainty' | 'k' | '
   const hasU = p.expandedUncertainty != null;
   const hasK = p.k != null;
   const hasu = p.standardUncertainty != null;
-  if (full || p.expandedUncertainty !== undefined || p.k !== undefined) {
+  // A partial purity (PATCH) is checked here only where both members of a pair are given; the server
+  // re-checks the merged record in full.
+  const both = (a: keyof typeof p, b: keyof typeof p) => full || (p[a] !== undefined && p[b] !== undefined);
+  if (both('expandedUncertainty', 'k')) {
     if (hasU && !hasK) issue(ctx, ['purity', 'k'], 'An expanded uncertainty needs its coverage factor k, e.g. 2');
     if (hasK && !hasU) issue(ctx, ['purity', 'expandedUncertainty'], 'Give the expanded uncertainty that goes with k, or clear k');
   }
-  if (hasU && hasu) issue(ctx, ['purity', 'standardUncertainty'], 'Give either the expanded uncertainty with k or the standard uncertainty, not both');
+  if (both('expandedUncertainty', 'standardUncertainty') && hasU && hasu) issue(ctx, ['purity', 'standardUncertainty'], 'Give either the expanded uncertainty with k or the standard uncertainty, not both');
   if (full && grade === 'CRM' && !hasU && !hasu) {
     issue(ctx, ['purity', 'expandedUncertainty'], 'A certified reference material needs its purity uncertainty (expanded with k, or standard)');
   }
@@ -391,7 +394,7 @@ function balanceRules(b: Partial<Record<keyof typeof balanceFields, unknown>>, c
   if (dateOk(b.calibratedOn) && dateOk(b.calibrationDueOn) && b.calibrationDueOn <= b.calibratedOn) {
     issue(ctx, ['calibrationDueOn'], 'The calibration due date must be after the calibration date');
   }
-  if (full || b.calibrationUncertaintyMg !== undefined || b.calibrationUncertaintyK !== undefined) {
+  if (full || (b.calibrationUncertaintyMg !== undefined && b.calibrationUncertaintyK !== undefined)) {
     if (b.calibrationUncertaintyMg != null && b.calibrationUncertaintyK == null) {
       issue(ctx, ['calibrationUncertaintyK'], 'The calibration uncertainty needs its coverage factor k, e.g. 2');
     }
