@@ -6,6 +6,7 @@ import { calcRouter } from './calc.routes.ts';
 import { certificatesRouter } from './certificates.routes.ts';
 import { healthRouter } from './health.routes.ts';
 import { inventoryRouter } from './inventory.routes.ts';
+import { preparationsRouter } from './preparations.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
 
@@ -19,6 +20,7 @@ export function apiRouter(config: Config): Router {
   router.use(calcRouter());
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
+  router.use(preparationsRouter());
   router.use(auditRouter());
   return router;
 }

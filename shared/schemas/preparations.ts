@@ -14,11 +14,14 @@ import { z } from 'zod';
 import Decimal from 'decimal.js';
 import { CONCENTRATION_UNITS, VOLUME_UNITS, isConcentrationUnit, isVolumeUnit } from '../calc/units.ts';
 import type { CalcPreparationResponse } from '../calc/preparation.ts';
-import type { Gate, GateCode, GateSeverity, GateSuggestion } from '../prep/gates.ts';
+import type { GateCode, GateSeverity, GateSuggestion } from '../prep/gates.ts';
+import type { PlanGate, PlanGateCode } from '../prep/plan-gates.ts';
 import type { Balance, ReferenceMaterial, VolumetricWare } from './inventory.ts';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 
-export type { CalcPreparationResponse, Gate, GateCode, GateSeverity, GateSuggestion };
+export type { CalcPreparationResponse, GateCode, GateSeverity, GateSuggestion, PlanGateCode };
+/** A planning gate: the codes of shared/prep/gates.ts plus the flask/density gates of shared/prep/plan-gates.ts. */
+export type Gate = PlanGate;
 
 // ---------------------------------------------------------------- helpers
 
@@ -233,7 +236,9 @@ export interface ReadingWindowDto {
 
 export interface ExpectedUncertainty {
   standardUncertainty: string;
+  /** k = 2 */
   expandedUncertainty: string;
+  /** relative standard uncertainty u/c */
   relative: string;
   display: string;
 }
@@ -351,6 +356,8 @@ export interface PreparationResult {
   budget: BudgetEntry[];
   temperatureCorrection?: { factor: string; temperatureC: string };
   basedOn: { weighingId: number; makeUpId: number };
+  /** the exact request given to the metrology core (with calcVersion, enough to recompute and compare) */
+  calcRequest?: unknown;
 }
 /** Alias with the contract's name. */
 export type Result = PreparationResult;

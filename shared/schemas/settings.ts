@@ -35,7 +35,14 @@ export const labSettingsSchema = z.object({
   /** Allowed deviation of an actual weighing from its planned mass, in percent of the target. */
   readingWindowPct: decimalCheck((d) => d.gt(0) && d.lte(50), 'Use a window greater than 0 and at most 50 %'),
   roundingRule: z.enum(ROUNDING_RULES, { error: `Choose one of: ${ROUNDING_RULES.join(', ')}` }),
+  /** Stability period of a new preparation in days, and where it comes from (unset: DEFAULT_STABILITY_DAYS). */
+  defaultStabilityDays: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 3650 days').max(3650, 'Use 0 to 3650 days').optional(),
+  defaultStabilityBasis: z.string({ error: 'Say where the stability period comes from' }).trim().min(1, 'Say where the stability period comes from').max(200, 'Use at most 200 characters').optional(),
 });
+
+/** Used when settings.defaultStabilityDays is unset (METROLOGY §10: a lab-editable default, not science). */
+export const DEFAULT_STABILITY_DAYS = 30;
+export const DEFAULT_STABILITY_BASIS = 'lab rule; replace with your validated stability data';
 export type LabSettings = z.infer<typeof labSettingsSchema>;
 
 /** PUT /api/settings: any subset; `defaultRoomConditions` may itself be partial. */

@@ -6,14 +6,20 @@ import type { Sequelize } from 'sequelize';
 import { initAuditEntry } from './audit-entry.model.ts';
 import { initMaterialCertificate } from './certificate.model.ts';
 import { initInventory } from './inventory.model.ts';
+import { initMakeUp } from './make-up.model.ts';
+import { initPreparations } from './preparation.model.ts';
 import { initSetting } from './setting.model.ts';
 import { initUser } from './user.model.ts';
+import { initWeighing } from './weighing.model.ts';
 
 export { User } from './user.model.ts';
 export { AuditEntry } from './audit-entry.model.ts';
 export { Setting } from './setting.model.ts';
 export { Balance, ReferenceMaterial, Solvent, VolumetricWare, type Analyte } from './inventory.model.ts';
 export { MaterialCertificate } from './certificate.model.ts';
+export { Preparation, PreparationEvent, PreparationSequence, type StoredPlan } from './preparation.model.ts';
+export { Weighing } from './weighing.model.ts';
+export { MakeUp } from './make-up.model.ts';
 
 const bound = new WeakSet<Sequelize>();
 
@@ -21,6 +27,9 @@ export function initModels(sequelize: Sequelize) {
   const models = { User: initUser(sequelize), Setting: initSetting(sequelize), ...initInventory(sequelize) };
   initAuditEntry(sequelize);
   initMaterialCertificate(sequelize);
+  initPreparations(sequelize);
+  initWeighing(sequelize);
+  initMakeUp(sequelize);
   bound.add(sequelize);
   return models;
 }
