@@ -28,6 +28,21 @@ export const router = createBrowserRouter([
             lazy: async () => ({ Component: (await import('../features/calculate/calculate-page.tsx')).CalculatePage }),
           },
           {
+            path: 'preparations',
+            children: [
+              { index: true, lazy: async () => ({ Component: (await import('../features/preparations/preparations-page.tsx')).PreparationsPage }) },
+              {
+                element: <RequireRole roles={['chemist']} />,
+                children: [{ path: 'new', lazy: async () => ({ Component: (await import('../features/preparations/plan-page.tsx')).PlanPage }) }],
+              },
+              { path: ':identifier', lazy: async () => ({ Component: (await import('../features/preparations/detail-page.tsx')).DetailPage }) },
+              {
+                element: <RequireRole roles={['chemist', 'technician']} />,
+                children: [{ path: ':identifier/bench', lazy: async () => ({ Component: (await import('../features/preparations/bench-page.tsx')).BenchPage }) }],
+              },
+            ],
+          },
+          {
             path: 'admin',
             element: <RequireRole roles={['admin']} />,
             children: [

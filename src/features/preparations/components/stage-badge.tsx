@@ -1,0 +1,18 @@
+import { stageLabel } from '../format.ts';
+import type { Stage } from '../types.ts';
+
+const TONES: Record<Stage, string> = {
+  planned: 'border-slate-700 bg-slate-100 text-ink',
+  weighed: 'border-brass-600 bg-brass-100 text-ink',
+  made_up: 'border-brass-600 bg-brass-100 text-ink',
+  complete: 'border-ok-700 bg-ok-50 text-ok-700',
+};
+
+export function StageBadge({ stage, testId }: { stage: Stage | string; testId?: string }) {
+  const tone = (TONES as Record<string, string>)[stage] ?? TONES.planned;
+  return (
+    <span data-testid={testId} className={`inline-flex items-center whitespace-nowrap rounded-full border-2 px-3 py-0.5 text-sm font-semibold ${tone}`}>
+      {stageLabel(stage)}
+    </span>
+  );
+}

@@ -1,0 +1,74 @@
+/** Display helpers for preparation records. Values stay decimal strings; only arranged for reading. */
+import { D } from '../../../shared/calc/decimal.ts';
+import { PREPARATION_ID_RE } from '../../../shared/prep/identifiers.ts';
+import type { Stage } from './types.ts';
+
+/** "7 Mar 2026, 14:02 GMT": the instant in the lab's time zone, with the zone named (REQUIREMENTS TS-02). */
+export function formatLabTime(iso: string | null | undefined, timeZone: string | undefined): string {
+  if (!iso) return '—';
+  const d = new Date(iso);
+  if (Number.isNaN(d.getTime())) return iso;
+  const tz = timeZone ?? 'UTC';
+  try {
+    return new Intl.DateTimeFormat('en-GB', {
+      day: 'numeric',
+      month: 'short',
+      year: 'numeric',
+      hour: '2-digit',
+      minute: '2-digit',
+      timeZone: tz,
+      timeZoneName: 'short',
+    }).format(d);
+  } catch {
+    return d.toISOString();
+  }
+}
+
+export const STAGE_LABELS: Record<Stage, string> = {
+  planned: 'Planned',
+  weighed: 'Weighed',
+  made_up: 'Made up to volume',
+  complete: 'Complete',
+};
+
+export function stageLabel(stage: string): string {
+  return (STAGE_LABELS as Record<string, string>)[stage] ?? stage.replace(/_/g, ' ');
+}
+
+export function statusLabel(status: string): string {
+  const s = status.replace(/_/g, ' ');
+  return s.charAt(0).toUpperCase() + s.slice(1);
+}
+
+/** A whole preparation identifier such as "HWL-2026-0042" (what a scanner types before Enter). */
+export function isPreparationIdentifier(text: string): boolean {
+  return PREPARATION_ID_RE.test(text.trim().toUpperCase());
+}
+
+export function qty(q: { value: string; unit: string } | null | undefined): string {
+  return q ? `${q.value} ${q.unit}` : '—';
+}
+
+/** Decimals a balance with readability d (mg) shows in mg ("0.1" → 1, "0.01" → 2, "10" → 0). */
+export function balanceDecimals(readabilityMg: string | null | undefined, unit: 'mg' | 'g' = 'mg'): number | null {
+  if (!readabilityMg) return null;
+  try {
+    const d = new D(readabilityMg);
+    if (d.lte(0)) return null;
+    return (unit === 'g' ? d.div(1000) : d).decimalPlaces();
+  } catch {
+    return null;
+  }
+}
+
+/** Percent from a 0..1 fraction string (or already-percent values above 1), one decimal. */
+export function percent(s: string | null | undefined, decimals = 1): string {
+  if (!s) return '—';
+  try {
+    const x = new D(s);
+    const pct = x.gt(1) ? x : x.mul(100);
+    return `${pct.toDecimalPlaces(decimals).toFixed(decimals)} %`;
+  } catch {
+    return '—';
+  }
+}
