@@ -37,6 +37,10 @@ export function auditRouter(): Router {
     res.end();
   });
 
+  router.get('/audit/actors', reviewers, async (_req, res) => {
+    res.json({ items: await audit.listActors() });
+  });
+
   router.post('/audit/verify', reviewers, async (req, res) => {
     res.json(await audit.verifyAndRecord(req.user!));
   });

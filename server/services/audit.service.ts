@@ -346,3 +346,14 @@ export async function recordExport(actor: { id: number; fullName: string }, filt
     ),
   );
 }
+
+/** The people who appear in the trail (for the "user" filter; QA cannot list accounts). */
+export async function listActors(): Promise<Array<{ id: number; name: string }>> {
+  const rows = await AuditEntry.sequelize!.query<{ actor_id: number; actor_name: string }>(
+    // SQLite: with MAX() in the result, the bare actor_name comes from the row holding that maximum.
+    `SELECT actor_id, actor_name, MAX(id) AS last_id FROM audit_entries WHERE actor_id IS NOT NULL
+     GROUP BY actor_id ORDER BY actor_name, actor_id`,
+    { type: QueryTypes.SELECT },
+  );
+  return rows.map((r) => ({ id: Number(r.actor_id), name: r.actor_name }));
+}

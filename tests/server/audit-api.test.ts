@@ -291,6 +291,18 @@ describe('POST /api/audit/verify', () => {
   });
 });
 
+describe('GET /api/audit/actors', () => {
+  it('when QA opens the user filter, then everyone who acted appears once, by their latest printed name', async () => {
+    const res = await request(t.app).get('/api/audit/actors').set('Cookie', qa);
+    expect(res.status).toBe(200);
+    const names = res.body.items.map((a: { name: string }) => a.name);
+    expect(names).toContain('Lena Marchetti');
+    expect(names).toContain('Tomasz Achterberg');
+    expect(new Set(res.body.items.map((a: { id: number }) => a.id)).size).toBe(names.length);
+    expect(res.body.items).toContainEqual({ id: adminId, name: 'Lena Marchetti' });
+  });
+});
+
 describe('GET /api/audit/records/:entity/:entityId', () => {
   it('when any signed-in role asks for one record, then its trail comes oldest first', async () => {
     const res = await request(t.app).get('/api/audit/records/setting/readingWindowPct').set('Cookie', technician);

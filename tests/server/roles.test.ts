@@ -49,6 +49,7 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/solvents', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/audit', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'get', path: '/api/audit/export.csv', allowed: ['qa', 'admin'], ok: 200 },
+  { method: 'get', path: '/api/audit/actors', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'post', path: '/api/audit/verify', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'get', path: '/api/audit/records/:entity/:entityId', allowed: 'signedIn', ok: 200 },
 ];
