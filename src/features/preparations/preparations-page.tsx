@@ -8,8 +8,8 @@ import { useAuth } from '../auth/use-auth.ts';
 import { settingsQueries } from '../calculate/api/settings-queries.ts';
 import { preparationQueries } from './api/preparation-queries.ts';
 import { StageBadge } from './components/stage-badge.tsx';
-import { formatLabTime, isPreparationIdentifier, qty, stageLabel } from './format.ts';
-import { STAGES } from './types.ts';
+import { formatLabTime, isPreparationIdentifier, qty, statusLabel } from './format.ts';
+import { PREPARATION_STATUSES } from '../../../shared/schemas/preparations.ts';
 
 type Tab = 'mine' | 'today' | 'all';
 const TABS: { value: Tab; label: string }[] = [
@@ -25,7 +25,7 @@ export function PreparationsPage() {
   const navigate = useNavigate();
   const [params, setParams] = useSearchParams();
   const tab = (params.get('tab') as Tab | null) ?? 'mine';
-  const stage = params.get('status') ?? '';
+  const status = params.get('status') ?? '';
   const page = Math.max(1, Number(params.get('page') ?? '1') || 1);
   const [search, setSearch] = useState(params.get('search') ?? '');
   const searchDebounced = useDebouncedValue(search.trim(), 250);
@@ -36,7 +36,7 @@ export function PreparationsPage() {
     preparationQueries.list({
       mine: tab === 'mine',
       today: tab === 'today',
-      status: stage || undefined,
+      status: status || undefined,
       search: searchDebounced || undefined,
       page,
       pageSize: PAGE_SIZE,
@@ -122,14 +122,14 @@ export function PreparationsPage() {
           ))}
         </div>
         <div>
-          <label htmlFor="prep-stage" className="mb-1 block text-sm font-semibold">
-            Stage
+          <label htmlFor="prep-status" className="mb-1 block text-sm font-semibold">
+            Status
           </label>
-          <select id="prep-stage" data-testid="prep-stage" value={stage} onChange={(e) => update({ status: e.target.value })} className="field-input min-w-56">
-            <option value="">Any stage</option>
-            {STAGES.map((s) => (
+          <select id="prep-status" data-testid="prep-status" value={status} onChange={(e) => update({ status: e.target.value })} className="field-input min-w-56">
+            <option value="">Any status</option>
+            {PREPARATION_STATUSES.map((s) => (
               <option key={s} value={s}>
-                {stageLabel(s)}
+                {statusLabel(s)}
               </option>
             ))}
           </select>
