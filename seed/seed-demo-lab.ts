@@ -5,6 +5,7 @@
 import type { Sequelize } from 'sequelize';
 import { Balance, initModels, modelsBoundTo, ReferenceMaterial, Solvent, User, VolumetricWare } from '../server/db/models/index.ts';
 import { hashPassword } from '../server/services/passwords.ts';
+import { seedDemoPreparations } from './demo-preparations.ts';
 import { DEMO_PASSWORD, demoBalances, demoMaterials, demoSolvents, demoUsers, demoVolumetricWare } from './demo-data.ts';
 
 export class SeedRefusedError extends Error {
@@ -36,6 +37,7 @@ export async function seedDemoLab(
     await VolumetricWare.bulkCreate(demoVolumetricWare.map((w) => ({ ...w })), { transaction });
     await Solvent.bulkCreate(demoSolvents.map((s) => ({ ...s })), { transaction });
   });
+  await seedDemoPreparations();
   return {
     seeded: true,
     counts: {

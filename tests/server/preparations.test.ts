@@ -488,3 +488,20 @@ describe('records kept for good', () => {
     t = { ...t, app, sequelize, close: async () => { await sequelize.close(); } };
   });
 });
+
+describe('demo seed (seed/demo-preparations.ts)', () => {
+  it('when the demo lab is seeded, then five November preparations by the two chemists cover every stage, a correction and an out-of-window reason', async () => {
+    const list = (await send('qa', 'get', '/api/preparations?search=HWL-2026-000&pageSize=100')).body.items as any[];
+    const seeded = list.filter((i) => i.createdAt.startsWith('2026-11')).sort((a, b) => a.id - b.id);
+    expect(seeded.map((i) => i.stage)).toEqual(['complete', 'complete', 'complete', 'weighed', 'planned']);
+    expect(new Set(seeded.map((i) => i.createdBy.fullName))).toEqual(new Set(['Dr. Maren Tollefsen', 'Idris Okonkwo-Baptiste']));
+    const cl = (await send('qa', 'get', `/api/preparations/${seeded[1].identifier}`)).body;
+    expect(cl.weighings).toHaveLength(2);
+    expect(cl.weighings[0].supersededById).toBe(cl.weighings[1].id);
+    const toc = (await send('qa', 'get', `/api/preparations/${seeded[2].identifier}`)).body;
+    expect(toc.weighings[0]).toMatchObject({ inWindow: false, outOfWindowReason: expect.stringContaining('Overshot') });
+    const pb = (await send('qa', 'get', `/api/preparations/${seeded[0].identifier}`)).body;
+    expect(Number(pb.result.concentration.value)).toBeCloseTo(1000.99, 2); // METROLOGY §5.4 (same reading and conditions)
+    expect(pb.expiry.expiresOn).toBe('2026-12-09'); // prepared 2026-11-09 + 30 days (lab default stability rule)
+  });
+});
