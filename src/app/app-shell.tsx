@@ -14,6 +14,7 @@ const NAV: NavItem[] = [
   { to: '/calculate', label: 'Calculate', testId: 'nav-calculate' },
   { to: '/preparations', label: 'Preparations', end: true, testId: 'nav-preparations' },
   { to: '/preparations/new', label: 'Plan a standard', roles: ['chemist'], testId: 'nav-plan' },
+  { to: '/audit', label: 'Audit trail', roles: ['qa', 'admin'], testId: 'nav-audit' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
 ];
 

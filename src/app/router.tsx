@@ -43,6 +43,11 @@ export const router = createBrowserRouter([
             ],
           },
           {
+            path: 'audit',
+            element: <RequireRole roles={['qa', 'admin']} />,
+            children: [{ index: true, lazy: async () => ({ Component: (await import('../features/audit/audit-page.tsx')).AuditPage }) }],
+          },
+          {
             path: 'admin',
             element: <RequireRole roles={['admin']} />,
             children: [
