@@ -6,7 +6,7 @@ import { useSignOut } from '../features/auth/api/sign-out.ts';
 import type { Role } from '../features/auth/types.ts';
 import { roleLabel } from '../lib/format.ts';
 
-type NavItem = { to: string; label: string; roles?: readonly Role[]; end?: boolean; testId: string };
+type NavItem = { to: string; label: string; roles?: readonly Role[]; end?: boolean; testId: string; group?: string };
 
 /** Navigation follows the role. Only pages that exist are listed. */
 const NAV: NavItem[] = [
@@ -14,6 +14,10 @@ const NAV: NavItem[] = [
   { to: '/calculate', label: 'Calculate', testId: 'nav-calculate' },
   { to: '/preparations', label: 'Preparations', end: true, testId: 'nav-preparations' },
   { to: '/preparations/new', label: 'Plan a standard', roles: ['chemist'], testId: 'nav-plan' },
+  { to: '/inventory/materials', label: 'Materials', group: 'Inventory', testId: 'nav-inventory-materials' },
+  { to: '/inventory/balances', label: 'Balances', group: 'Inventory', testId: 'nav-inventory-balances' },
+  { to: '/inventory/volumetric-ware', label: 'Volumetric ware', group: 'Inventory', testId: 'nav-inventory-ware' },
+  { to: '/inventory/solvents', label: 'Solvents', group: 'Inventory', testId: 'nav-inventory-solvents' },
   { to: '/audit', label: 'Audit trail', roles: ['qa', 'admin'], testId: 'nav-audit' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
 ];
@@ -21,15 +25,18 @@ const NAV: NavItem[] = [
 function NavList({ role, onNavigate }: { role: Role; onNavigate?: () => void }) {
   return (
     <ul className="flex flex-col gap-1">
-      {NAV.filter((n) => !n.roles || n.roles.includes(role)).map((n) => (
+      {NAV.filter((n) => !n.roles || n.roles.includes(role)).map((n, i, shown) => (
         <li key={n.to}>
+          {n.group && n.group !== shown[i - 1]?.group ? (
+            <span className="mt-2 block px-4 pb-1 text-sm font-semibold uppercase tracking-wide text-slate-100/75">{n.group}</span>
+          ) : null}
           <NavLink
             to={n.to}
             end={n.end}
             onClick={onNavigate}
             data-testid={n.testId}
             className={({ isActive }) =>
-              `flex min-h-12 items-center rounded-lg border-l-4 px-4 text-lg font-semibold ${
+              `flex min-h-12 items-center rounded-lg border-l-4 px-4 text-lg font-semibold ${n.group ? 'pl-7' : ''} ${
                 isActive ? 'border-brass-400 bg-white/12 text-white' : 'border-transparent text-slate-100 hover:bg-white/8'
               }`
             }

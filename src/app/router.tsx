@@ -6,6 +6,7 @@ import { NotFound } from '../components/errors/not-found.tsx';
 import { SignInPage } from '../features/auth/sign-in-page.tsx';
 import { HomePage } from '../features/home/home-page.tsx';
 import { Spinner } from '../components/ui/feedback.tsx';
+import { inventoryRoutes } from '../features/inventory/routes.tsx';
 
 /**
  * Route table. The calculation page pulls in the metrology core (mf-parser, decimal.js), and the
@@ -47,6 +48,7 @@ export const router = createBrowserRouter([
             element: <RequireRole roles={['qa', 'admin']} />,
             children: [{ index: true, lazy: async () => ({ Component: (await import('../features/audit/audit-page.tsx')).AuditPage }) }],
           },
+          { path: 'inventory', children: inventoryRoutes },
           {
             path: 'admin',
             element: <RequireRole roles={['admin']} />,
