@@ -1,5 +1,5 @@
 // umzug migrations: up creates the tables (TEXT for measured values), down removes them, state in schema_migrations.
-import { mkdtempSync, rmSync } from 'node:fs';
+import { mkdtempSync, readdirSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { QueryTypes, UniqueConstraintError, type Sequelize } from 'sequelize';
@@ -18,7 +18,13 @@ afterAll(async () => {
   rmSync(dir, { recursive: true, force: true });
 });
 
-const APP_TABLES = ['balances', 'reference_materials', 'settings', 'solvents', 'users', 'volumetric_ware'];
+/** The tables of the first two migrations (foundation and inventory); later migrations add more. */
+const BASE_TABLES = ['balances', 'reference_materials', 'settings', 'solvents', 'users', 'volumetric_ware'];
+/** Every migration file, in the order umzug runs them. */
+const MIGRATIONS = readdirSync(new URL('../../server/db/migrations/', import.meta.url))
+  .filter((f) => /^\d{4}-.+\.ts$/.test(f))
+  .sort();
+let allTables: string[] = [];
 
 async function tables(): Promise<string[]> {
   const rows = await sequelize.query<{ name: string }>(
@@ -43,8 +49,9 @@ describe('migrations', () => {
 
   it('when migrated up, then every table exists and the runs are recorded in schema_migrations', async () => {
     const applied = await migrateUp(sequelize);
-    expect(applied.map((m) => m.name)).toEqual(['0001-foundation.ts', '0002-inventory.ts']);
-    expect(await tables()).toEqual([...APP_TABLES, 'schema_migrations'].sort());
+    expect(applied.map((m) => m.name)).toEqual(MIGRATIONS);
+    allTables = await tables();
+    expect(allTables).toEqual(expect.arrayContaining([...BASE_TABLES, 'schema_migrations']));
     expect(await migrateUp(sequelize)).toEqual([]); // idempotent
     expect((await createMigrator(sequelize).pending()).length).toBe(0);
   });
@@ -83,7 +90,15 @@ describe('migrations', () => {
     await expect(sequelize.query(insert)).rejects.toBeInstanceOf(UniqueConstraintError);
   });
 
-  it('when migrated down one step, then only the inventory tables go', async () => {
+  it('when migrated down to 0002, then every later migration is reverted and its tables go', async () => {
+    const later = MIGRATIONS.filter((m) => m > '0002-inventory.ts');
+    // umzug's down({ to }) reverts down to and including `to`.
+    const reverted = later.length ? await migrateDown(sequelize, { to: later[0] }) : [];
+    expect(reverted.map((m) => m.name)).toEqual([...later].reverse());
+    expect(await tables()).toEqual([...BASE_TABLES, 'schema_migrations'].sort());
+  });
+
+  it('when migrated down one more step, then only the inventory tables go', async () => {
     const reverted = await migrateDown(sequelize);
     expect(reverted.map((m) => m.name)).toEqual(['0002-inventory.ts']);
     expect(await tables()).toEqual(['schema_migrations', 'settings', 'users']);
@@ -93,7 +108,7 @@ describe('migrations', () => {
     await migrateDown(sequelize, { to: 0 });
     expect(await tables()).toEqual(['schema_migrations']);
     await migrateUp(sequelize);
-    expect(await tables()).toEqual([...APP_TABLES, 'schema_migrations'].sort());
+    expect(await tables()).toEqual(allTables);
     const [row] = await sequelize.query<{ value: string }>("SELECT value FROM settings WHERE key = 'labName'", { type: QueryTypes.SELECT });
     expect(JSON.parse(row!.value)).toBe('Harbourside Water Laboratory');
   });
