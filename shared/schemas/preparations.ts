@@ -154,6 +154,8 @@ export const weighingInputSchema = z
     outOfWindowReason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
     supersedesId: id('the weighing to correct').optional(),
     correctionReason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
+    /** required (server-checked, 400 fields["signature.password"]) when the record is prepared, returned or verified */
+    signature: z.lazy(() => changeSignatureSchema).optional(),
   })
   .superRefine((w, ctx) => {
     if (w.mode === 'direct') {
@@ -182,10 +184,18 @@ export const makeUpInputSchema = z.object({
   applyTemperatureCorrection: z.boolean({ error: 'Say whether to correct the concentration to 20 °C' }),
   /** required (server-checked) when a make-up is already recorded */
   correctionReason: reason('the reason for the new make-up').optional(),
+  /** required (server-checked) when the record is prepared, returned or verified: an "amended" signature */
+  signature: z.lazy(() => changeSignatureSchema).optional(),
 });
 export type MakeUpInput = z.output<typeof makeUpInputSchema>;
 
-export const PREPARATION_STATUSES = ['planned'] as const; // later tasks add prepared / verified / returned
+/**
+ * Record status (server-enforced state machine, server/services/preparation-status.ts):
+ * planned → prepared (preparer signs) → verified | returned (verifier's reason) → prepared (new signature);
+ * any live state → discarded (reason); expired is set by the expiry job. A correction after signing sets
+ * the status back to planned with amendedFromVersion.
+ */
+export const PREPARATION_STATUSES = ['planned', 'prepared', 'verified', 'returned', 'expired', 'discarded'] as const;
 export type PreparationStatus = (typeof PREPARATION_STATUSES)[number] | (string & {});
 export const PREPARATION_STAGES = ['planned', 'weighed', 'made_up', 'complete'] as const;
 export type PreparationStage = (typeof PREPARATION_STAGES)[number];
@@ -401,4 +411,127 @@ export interface PreparationDetail extends PreparationSummary {
   hazards: Hazards;
   statusHistory: StatusEvent[];
   expiry: { expiresOn: string; reason: string };
+  /** electronic signatures, oldest first, including superseded ones (valid: false) */
+  signatures: Signature[];
+  /** set when the record was changed after signing: the version whose signatures were invalidated */
+  amendedFromVersion?: number;
+  /** set on records made from one that changed after signing (later: dilutions) */
+  reviewFlag?: ReviewFlag;
+  /** the items the verifier must tick (every key is required in `checklist` for "verified") */
+  verificationChecklist: ChecklistItem[];
+  /** computed for the requesting user; `reasons[action]` says why an action is not allowed */
+  canSign: CanSign;
+}
+
+// ---------------------------------------------------------------- signatures
+
+export const SIGNATURE_MEANINGS = ['prepared', 'verified', 'returned', 'discarded', 'amended'] as const;
+export type SignatureMeaning = (typeof SIGNATURE_MEANINGS)[number];
+/** Meanings a user can sign through POST /api/preparations/:key/signatures ("amended" comes with a change). */
+export const SIGNABLE_MEANINGS = ['prepared', 'verified', 'returned', 'discarded'] as const;
+export type SignableMeaning = (typeof SIGNABLE_MEANINGS)[number];
+
+/** The meaning text stored with each signature and shown before signing and on every copy (ES-01, ES-02). */
+export const SIGNATURE_MEANING_TEXT: Record<SignatureMeaning, string> = {
+  prepared: 'Prepared by (authorship and responsibility)',
+  verified: 'Verified by (second-person review of accuracy, completeness and compliance)',
+  returned: 'Returned to the preparer by (second-person review, not accepted)',
+  discarded: 'Discarded by (record withdrawn from use)',
+  amended: 'Amended by (change to a signed record; earlier signatures no longer apply)',
+};
+
+/** Shown at a user's first signing; acknowledged once and stored (ES-08). */
+export const SIGNATURE_RESPONSIBILITY_STATEMENT =
+  'I understand that my electronic signature is the legally binding equivalent of my handwritten signature, ' +
+  'that it is unique to me, and that I am accountable for every record I sign with it. I will not share my password.';
+
+export interface ChecklistItem {
+  key: string;
+  label: string;
+}
+
+/** Verifier's checklist (REQUIREMENTS RV-03, W3). */
+export const VERIFICATION_CHECKLIST: readonly ChecklistItem[] = [
+  { key: 'planned_vs_actual', label: 'Planned and actual values compared (target reading, window, weighing, flask and volume)' },
+  { key: 'inputs_valid', label: 'Reference material, solvent and certificate valid and unexpired at the time of use' },
+  { key: 'equipment_ok', label: 'Balance and volumetric flask in service and within calibration at the time of use' },
+  { key: 'calculation_matches', label: 'System-recomputed concentration and uncertainty match the record' },
+  { key: 'flags_dispositioned', label: 'Out-of-window weighings, corrections and planning warnings are justified' },
+  { key: 'entries_checked', label: 'Manually entered readings checked against the balance printout or log' },
+  { key: 'audit_trail_reviewed', label: 'Record-level audit trail reviewed' },
+];
+
+export interface Signature {
+  id: number;
+  meaning: SignatureMeaning;
+  meaningText: string;
+  /** printed name at the time of signing */
+  signer: PersonRef;
+  /** UTC ISO with milliseconds */
+  signedAt: string;
+  recordVersion: number;
+  /** SHA-256 hex of the canonical JSON of the record version signed (server/services/signatures.service.ts) */
+  recordHash: string;
+  reason?: string;
+  checklist?: Record<string, true>;
+  /** false once the record has changed since; shown as "superseded: applied to v {recordVersion}" */
+  valid: boolean;
+}
+
+export interface ReviewFlag {
+  reason: string;
+  flaggedAt: string;
+}
+
+export interface CanSign {
+  prepare: boolean;
+  verify: boolean;
+  return: boolean;
+  discard: boolean;
+  /** keyed by prepare | verify | return | discard: why that action is not allowed for this user now */
+  reasons: Record<string, string>;
+}
+
+/** Body of POST /api/preparations/:key/signatures → PreparationDetail (201). */
+export const signatureInputSchema = z
+  .object({
+    meaning: z.enum(SIGNABLE_MEANINGS, { error: 'Choose prepared, verified, returned or discarded' }),
+    password: z.string({ error: 'Enter your password to sign' }).min(1, 'Enter your password to sign').max(200, 'Use at most 200 characters'),
+    reason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
+    checklist: z.record(z.string(), z.literal(true, { error: 'Tick the item (true)' })).optional(),
+    acknowledgeResponsibility: z.literal(true, { error: 'Tick the statement to acknowledge it' }).optional(),
+  })
+  .superRefine((s, ctx) => {
+    if ((s.meaning === 'returned' || s.meaning === 'discarded') && (s.reason === undefined || s.reason.length < 3)) {
+      ctx.addIssue({ code: 'custom', path: ['reason'], message: `Give the reason the record is ${s.meaning} (at least 3 characters)` });
+    }
+  });
+export type SignatureInput = z.output<typeof signatureInputSchema>;
+
+/** `signature` next to `correctionReason` on a weighing or make-up that changes a signed record. */
+export const changeSignatureSchema = z.object({
+  password: z.string({ error: 'Enter your password to sign the change' }).min(1, 'Enter your password to sign the change').max(200, 'Use at most 200 characters'),
+});
+export type ChangeSignatureInput = z.output<typeof changeSignatureSchema>;
+
+/** 409 body when a status change is not allowed from the current state. */
+export interface InvalidTransitionError {
+  error: { code: 'invalid_transition'; message: string; fields?: Record<string, string> };
+}
+
+// ---------------------------------------------------------------- outbox (admin; the local fake SMTP server's mailbox)
+
+/** GET /api/outbox */
+export interface OutboxList {
+  items: Array<{ id: number; to: string; subject: string; receivedAt: string }>;
+}
+/** GET /api/outbox/:id */
+export interface OutboxMessage {
+  id: number;
+  from: string;
+  to: string;
+  subject: string;
+  text: string;
+  html: string;
+  receivedAt: string;
 }
