@@ -9,7 +9,8 @@
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { D } from '../../shared/calc/decimal.ts';
-import { launchBrowser, openPage, screenshot, signIn, startServer, type RunningServer } from './harness.ts';
+import { join } from 'node:path';
+import { ARTIFACTS, launchBrowser, openPage, screenshot, signIn, startServer, type RunningServer } from './harness.ts';
 
 const PASSWORD = 'bench-demo-2026'; // the seeded demo lab's shared demo password (README)
 const CHEMIST = 'chemist@harbourside.example';
@@ -29,13 +30,10 @@ afterAll(async () => {
 
 /** Value of the first <option> of a select whose label contains `text`. */
 async function optionValue(page: Page, select: string, text: string): Promise<string> {
-  const value = await page.$$eval(
-    `${select} option`,
-    (opts, t) => (opts as HTMLOptionElement[]).find((o) => o.textContent?.includes(t))?.value ?? '',
-    text,
-  );
-  expect(value, `option "${text}" in ${select}`).not.toBe('');
-  return value;
+  const read = () =>
+    page.$$eval(`${select} option`, (opts, t) => (opts as HTMLOptionElement[]).find((o) => o.textContent?.includes(t))?.value ?? '', text);
+  await expect.poll(read, { message: `option "${text}" in ${select}` }).not.toBe(''); // lists load asynchronously
+  return read();
 }
 
 async function optionLabel(page: Page, select: string, value: string): Promise<string> {
@@ -144,6 +142,21 @@ describe('preparation journey', () => {
       await page.waitForSelector('[data-testid="result-display"]');
       await screenshot(page, 'prep-bench-1280');
 
+      // Correct the weighing (a typo at the bench): a new entry with a reason; the old one stays, struck through.
+      const firstId = (await page.getAttribute('[data-testid="weighing-entry"] [data-testid^="correct-weighing-"]', 'data-testid'))!.replace('correct-weighing-', '');
+      await page.click(`[data-testid="correct-weighing-${firstId}"]`);
+      await page.waitForSelector('[data-testid="correction-reason"]');
+      const corrected = aim.minus('0.05').toFixed(2);
+      await page.fill('[data-testid="input-reading"]', corrected);
+      await page.click('[data-testid="save-weighing"]'); // no reason yet → refused at the field
+      await page.waitForSelector('#correctionReason-error');
+      await page.fill('[data-testid="correction-reason"]', 'Transcription error: digits swapped when typing');
+      await page.click('[data-testid="save-weighing"]');
+      await page.waitForSelector('[data-testid="weighing-superseded"]');
+      expect(await page.locator('[data-testid="weighing-entry"]').count()).toBe(2);
+      expect(await text(page, 'weighing-superseded')).toMatch(/^superseded by #\d+$/);
+      expect(await page.locator('[data-testid="weighing-raw"]').nth(1).textContent()).toBe(`${corrected} mg`);
+
       // The record.
       await page.click('[data-testid="bench-to-detail"]');
       await page.waitForSelector('[data-testid="detail-result"], #detail-result-title');
@@ -159,11 +172,16 @@ describe('preparation journey', () => {
       expect(await page.textContent('[data-testid="snapshot-balance"]')).toContain('0.01 mg');
       expect(await page.textContent('#detail-hazards-title ~ *')).toContain('Follow the SDS, local regulations');
       await screenshot(page, 'prep-detail-1280');
+      await page.locator('section[aria-labelledby="detail-budget-title"]').screenshot({ path: join(ARTIFACTS, 'prep-budget-1280.png') });
+      await page.locator('section[aria-labelledby="detail-result-title"]').screenshot({ path: join(ARTIFACTS, 'prep-result-1280.png') });
 
       // Scanner: identifier + Enter opens the record.
       await page.click('[data-testid="nav-preparations"]');
       await page.waitForSelector('[data-testid="prep-row"]');
-      expect(await text(page, 'prep-row-id')).toBe(identifier);
+      // "Mine" lists the chemist's own record (after the cached list has been refreshed)
+      await expect
+        .poll(() => page.$$eval('[data-testid="prep-row-id"]', (els) => els.map((e) => e.textContent?.trim())))
+        .toContain(identifier);
       await screenshot(page, 'prep-list-1280', false);
       await page.focus('[data-testid="prep-search"]');
       await page.keyboard.type(identifier);

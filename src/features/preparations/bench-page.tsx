@@ -1,6 +1,7 @@
 import { useState } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router';
+import { Button } from '../../components/ui/button.tsx';
 import { Banner, PageHeader, Panel, Spinner } from '../../components/ui/feedback.tsx';
 import { settingsQueries } from '../calculate/api/settings-queries.ts';
 import { fixed } from '../calculate/format-result.ts';
@@ -20,6 +21,7 @@ export function BenchPage() {
   const settings = useQuery(settingsQueries.detail());
   const [correcting, setCorrecting] = useState<Weighing | null>(null);
   const [saved, setSaved] = useState<string | null>(null);
+  const [makeUpAgain, setMakeUpAgain] = useState(false);
 
   if (detail.isPending) return <Spinner label="Loading the preparation…" />;
   if (detail.isError) {
@@ -70,10 +72,12 @@ export function BenchPage() {
           </p>
           <p className="mt-2 text-xl">
             Window ± {d.plan.window.pct} %:{' '}
-            <span data-testid="bench-window" className="num text-3xl font-bold">
-              {d.plan.window.low} … {d.plan.window.high}
-            </span>{' '}
-            mg
+            <span className="whitespace-nowrap">
+              <span data-testid="bench-window" className="num text-3xl font-bold">
+                {d.plan.window.low} … {d.plan.window.high}
+              </span>{' '}
+              mg
+            </span>
           </p>
         </div>
         <dl className="flex flex-col gap-2 text-lg">
@@ -135,10 +139,17 @@ export function BenchPage() {
                 {d.makeUp.recordedBy.fullName}, {formatLabTime(d.makeUp.recordedAt, tz)}.
               </p>
             ) : null}
-            {latest || d.makeUp ? (
+            {d.makeUp && !makeUpAgain ? (
+              <Button variant="secondary" data-testid="make-up-again" onClick={() => setMakeUpAgain(true)}>
+                Make up again (with a reason)
+              </Button>
+            ) : latest || d.makeUp ? (
               <MakeUpForm
                 detail={d}
-                onDone={(next) => setSaved(`Make-up stored.${next.result ? ` Concentration now ${next.result.concentration.display}.` : ''}`)}
+                onDone={(next) => {
+                  setMakeUpAgain(false);
+                  setSaved(`Make-up stored.${next.result ? ` Concentration now ${next.result.concentration.display}.` : ''}`);
+                }}
               />
             ) : (
               <p className="text-ink-soft">Record the weighing first.</p>

@@ -16,7 +16,7 @@ import { useCreatePreparation } from './api/preparation-mutations.ts';
 import { ConditionsFields, nowLocalInput } from './components/conditions-fields.tsx';
 import { GatePanels } from './components/gate-panels.tsx';
 import { MaterialCard } from './components/material-card.tsx';
-import { balanceDecimals } from './format.ts';
+import { balanceDecimals, percent } from './format.ts';
 import {
   CONCENTRATION_UNITS,
   EMPTY_PLAN,
@@ -89,7 +89,7 @@ function PreviewPanel({ preview, pending }: { preview: PreviewResponse; pending:
         <p data-testid="plan-expected" className="num mt-1 text-2xl font-bold">
           {preview.expectedUncertainty.display}
         </p>
-        <p className="text-sm text-slate-100">Relative standard uncertainty {sig(preview.expectedUncertainty.relative, 2)}</p>
+        <p className="text-sm text-slate-100">Relative standard uncertainty {percent(preview.expectedUncertainty.relative, 2)}</p>
       </div>
       <p className="text-sm text-ink-soft">
         Conditions used: {preview.conditionsUsed.source === 'lab-default' ? "the lab's defaults" : 'as measured'} —{' '}

@@ -1,23 +1,32 @@
 import { fixed, sig } from '../../calculate/format-result.ts';
 import type { Result } from '../types.ts';
 
+const SUP: Record<string, string> = { '-': '⁻', '0': '⁰', '1': '¹', '2': '²', '3': '³', '4': '⁴', '5': '⁵', '6': '⁶', '7': '⁷', '8': '⁸', '9': '⁹' };
+
+/** "1.000e+3" → "1.000 × 10³": keeps the written digits (the point of the significant-figure view). */
+export function powerOfTen(s: string): string {
+  const m = /^([+-]?\d+(?:\.\d+)?)[eE]\+?(-?\d+)$/.exec(s.trim());
+  if (!m) return s;
+  return `${m[1]} × 10${[...m[2]!].map((ch) => SUP[ch] ?? ch).join('')}`;
+}
+
 /** The recomputed concentration: GUM display big, the classical significant-figure view beside it. */
 export function ResultSummary({ result, compact = false }: { result: Result; compact?: boolean }) {
   const c = result.concentration;
   const sf = c.significantFigures;
   return (
     <div className="flex flex-col gap-3" data-testid="result-summary">
-      <div className="grid gap-3 md:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
+      <div className="grid gap-3 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="rounded-xl bg-slate-900 px-5 py-4 text-white">
           <p className="text-sm font-semibold text-slate-100">Concentration (rounded to its uncertainty, GUM)</p>
-          <p data-testid="result-display" className={`num mt-1 font-bold ${compact ? 'text-3xl' : 'text-4xl'}`}>
+          <p data-testid="result-display" className={`num mt-1 font-bold ${compact ? 'text-2xl sm:text-3xl' : 'text-3xl'}`}>
             {c.display}
           </p>
         </div>
         <div className="rounded-xl border-2 border-line bg-card px-5 py-4">
           <p className="text-sm font-semibold text-ink-soft">Classical significant figures</p>
           <p data-testid="result-sigfig" className="num mt-1 text-2xl font-semibold">
-            {sf ? `${sf.value} ${c.unit}` : '—'}
+            {sf ? `${powerOfTen(sf.value)} ${c.unit}` : '—'}
           </p>
           {sf ? (
             <p className="text-sm text-ink-soft">
