@@ -44,8 +44,9 @@ export function useRetireItem<K extends InventoryKind>(kind: K) {
  */
 async function postCertificate(materialId: number, file: File, note: string): Promise<Certificate> {
   const body = new FormData();
-  body.append('file', file, file.name);
+  // Text fields first: the server reads the parts in order.
   if (note.trim()) body.append('note', note.trim());
+  body.append('file', file, file.name);
   let res: Response;
   try {
     res = await fetch(`/api/materials/${materialId}/certificates`, { method: 'POST', credentials: 'include', headers: { Accept: 'application/json' }, body });
