@@ -5,6 +5,7 @@ import { useAuth } from '../features/auth/use-auth.ts';
 import { useSignOut } from '../features/auth/api/sign-out.ts';
 import type { Role } from '../features/auth/types.ts';
 import { roleLabel } from '../lib/format.ts';
+import { ScanBox } from '../features/scan/scan-box.tsx';
 
 type NavItem = { to: string; label: string; roles?: readonly Role[]; end?: boolean; testId: string; group?: string };
 
@@ -20,6 +21,7 @@ const NAV: NavItem[] = [
   { to: '/inventory/solvents', label: 'Solvents', group: 'Inventory', testId: 'nav-inventory-solvents' },
   { to: '/audit', label: 'Audit trail', roles: ['qa', 'admin'], testId: 'nav-audit' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
+  { to: '/admin/label-templates', label: 'Label templates', roles: ['admin'], testId: 'nav-label-templates' },
 ];
 
 function NavList({ role, onNavigate }: { role: Role; onNavigate?: () => void }) {
@@ -148,6 +150,11 @@ export function AppShell() {
       </header>
 
       <main id="main" className="mx-auto w-full max-w-[92rem] px-4 py-6 sm:px-6 lg:px-10 lg:py-8">
+        <div className="mb-4 flex justify-end">
+          <div className="w-full max-w-xl">
+            <ScanBox />
+          </div>
+        </div>
         <Outlet />
       </main>
     </div>

@@ -41,6 +41,10 @@ export const router = createBrowserRouter([
                 element: <RequireRole roles={['chemist', 'technician']} />,
                 children: [{ path: ':identifier/bench', lazy: async () => ({ Component: (await import('../features/preparations/bench-page.tsx')).BenchPage }) }],
               },
+              {
+                element: <RequireRole roles={['chemist', 'technician', 'qa']} />,
+                children: [{ path: ':identifier/print', lazy: async () => ({ Component: (await import('../features/printing/print-page.tsx')).PrintPage }) }],
+              },
             ],
           },
           {
@@ -56,6 +60,10 @@ export const router = createBrowserRouter([
               {
                 path: 'users',
                 lazy: async () => ({ Component: (await import('../features/users/users-page.tsx')).UsersPage }),
+              },
+              {
+                path: 'label-templates',
+                lazy: async () => ({ Component: (await import('../features/printing/label-templates-page.tsx')).LabelTemplatesPage }),
               },
             ],
           },

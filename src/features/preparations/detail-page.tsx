@@ -117,6 +117,7 @@ export function DetailPage() {
   const d = detail.data;
   const tz = settings.data?.timeZone;
   const canBench = auth.status === 'signed-in' && (auth.user.role === 'chemist' || auth.user.role === 'technician');
+  const canOpenPrint = auth.status === 'signed-in' && ['chemist', 'technician', 'qa'].includes(auth.user.role);
   const decimals = balanceDecimals(d.snapshot.balance.readabilityMg) ?? 2;
   const airDensity = d.plan.airDensity;
 
@@ -152,6 +153,18 @@ export function DetailPage() {
             className="inline-flex min-h-14 items-center rounded-lg border-2 border-slate-700 bg-slate-700 px-6 text-lg font-semibold text-white hover:bg-slate-900"
           >
             Open the bench view
+          </Link>
+        </div>
+      ) : null}
+
+      {canOpenPrint ? (
+        <div>
+          <Link
+            to={`/preparations/${encodeURIComponent(d.identifier)}/print`}
+            data-testid="open-print"
+            className="inline-flex min-h-14 items-center rounded-lg border-2 border-slate-700 bg-card px-6 text-lg font-semibold hover:bg-slate-100"
+          >
+            {canBench ? 'Print: prep sheet and labels' : 'Print the prep sheet'}
           </Link>
         </div>
       ) : null}
