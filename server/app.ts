@@ -14,6 +14,7 @@ import { initModels, modelsBoundTo } from './db/models/index.ts';
 import { apiNotFound, errorMiddleware } from './errors/error-middleware.ts';
 import { sessionMiddleware } from './middleware/session.ts';
 import { apiRouter } from './routes/index.ts';
+import type { Mailer } from './mail/mailer.ts';
 
 export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
 
@@ -26,9 +27,11 @@ export interface CreateAppOptions {
   clientMiddleware?: RequestHandler;
   /** Folder with the built client; default <repo>/dist. Served only when it holds index.html. */
   distDir?: string;
+  /** Delivers queued e-mail after commit; without one, mail stays queued in mail_queue (tests, MAIL_MODE=off). */
+  mailer?: Mailer;
 }
 
-export function createApp({ sequelize: given, db, config, clientMiddleware, distDir = DIST_DIR }: CreateAppOptions): Express {
+export function createApp({ sequelize: given, db, config, clientMiddleware, distDir = DIST_DIR, mailer }: CreateAppOptions): Express {
   const sequelize = given ?? db;
   if (!sequelize) throw new Error('createApp needs { sequelize, config }');
   if (!modelsBoundTo(sequelize)) initModels(sequelize);
@@ -36,6 +39,8 @@ export function createApp({ sequelize: given, db, config, clientMiddleware, dist
   const app = express();
   app.disable('x-powered-by');
   if (config.trustProxy > 0) app.set('trust proxy', config.trustProxy);
+  app.locals.mailer = mailer;
+  app.locals.lockoutThreshold = config.lockoutThreshold;
 
   // Vite's dev HTML needs inline scripts; keep the strict default CSP everywhere else (STACK P3).
   app.use(helmet(config.viteMiddleware ? { contentSecurityPolicy: false } : {}));

@@ -20,6 +20,23 @@ export interface Config {
   loginRateWindowMs: number;
   /** Consecutive failed sign-ins that lock an account (REQUIREMENTS PW-03 default 5). */
   lockoutThreshold: number;
+  /** Base of the links in e-mails (PUBLIC_URL); null = http://localhost:<port> once listening. */
+  publicUrl: string | null;
+  mail: MailConfig;
+}
+
+/**
+ * E-mail (MAIL_MODE): "fake" (default outside production) runs a local SMTP server and keeps what it receives
+ * in the Outbox; "smtp" sends through SMTP_HOST/SMTP_PORT/SMTP_SECURE/SMTP_USER/SMTP_PASS; "off" queues only.
+ */
+export interface MailConfig {
+  mode: 'fake' | 'smtp' | 'off';
+  from: string;
+  smtpHost: string;
+  smtpPort: number;
+  smtpSecure: boolean;
+  smtpUser: string;
+  smtpPass: string;
 }
 
 export class ConfigError extends Error {
@@ -81,5 +98,23 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     loginRateLimit: intFrom(env, 'LOGIN_RATE_LIMIT', 30, 1),
     loginRateWindowMs: 15 * 60 * 1000,
     lockoutThreshold: intFrom(env, 'LOCKOUT_THRESHOLD', 5, 3),
+    publicUrl: env.PUBLIC_URL ? env.PUBLIC_URL.replace(/\/+$/, '') : null,
+    mail: mailConfig(env, production),
+  };
+}
+
+function mailConfig(env: NodeJS.ProcessEnv, production: boolean): MailConfig {
+  // production without MAIL_MODE: smtp when SMTP_HOST is set, else "off" (mail stays queued, nothing leaves)
+  const mode = env.MAIL_MODE || (production ? (env.SMTP_HOST ? 'smtp' : 'off') : 'fake');
+  if (mode !== 'fake' && mode !== 'smtp' && mode !== 'off') throw new ConfigError(`MAIL_MODE must be fake, smtp or off, got "${mode}"`);
+  if (mode === 'smtp' && !env.SMTP_HOST) throw new ConfigError('MAIL_MODE=smtp needs SMTP_HOST (and usually SMTP_PORT, SMTP_USER, SMTP_PASS, MAIL_FROM)');
+  return {
+    mode,
+    from: env.MAIL_FROM || 'Tarebook <tarebook@harbourside.example>',
+    smtpHost: env.SMTP_HOST ?? '',
+    smtpPort: intFrom(env, 'SMTP_PORT', 587, 1),
+    smtpSecure: env.SMTP_SECURE === '1' || env.SMTP_SECURE === 'true',
+    smtpUser: env.SMTP_USER ?? '',
+    smtpPass: env.SMTP_PASS ?? '',
   };
 }

@@ -14,6 +14,8 @@ import { ConfigError, loadConfig, type Config } from './config.ts';
 import { migrateUp } from './db/migrate.ts';
 import { initModels, User } from './db/models/index.ts';
 import { openDatabase } from './db/sequelize.ts';
+import { startFakeSmtpServer, type FakeSmtpServer } from './mail/fake-smtp.ts';
+import { createMailer, smtpTransport, type Mailer } from './mail/mailer.ts';
 
 /**
  * Builds the client in a child process: Vite's in-process build() sets NODE_ENV=production for the
@@ -64,7 +66,16 @@ async function main(): Promise<void> {
     })) as unknown as typeof vite;
   }
 
-  const app = createApp({ sequelize, config, clientMiddleware: vite?.middlewares });
+  // e-mail: a local fake SMTP server (MAIL_MODE=fake, outside production) or the configured SMTP relay
+  let fakeSmtp: FakeSmtpServer | undefined;
+  let mailer: Mailer | undefined;
+  if (config.mail.mode === 'fake') {
+    fakeSmtp = await startFakeSmtpServer();
+    console.log(`Fake SMTP server on ${fakeSmtp.host}:${fakeSmtp.port} (messages in the admin Outbox)`);
+  }
+  if (config.mail.mode !== 'off') mailer = createMailer({ transport: smtpTransport(config, fakeSmtp), from: config.mail.from });
+
+  const app = createApp({ sequelize, config, clientMiddleware: vite?.middlewares, mailer });
   httpServer.on('request', app);
 
   await new Promise<void>((resolve, reject) => {
@@ -73,6 +84,8 @@ async function main(): Promise<void> {
   });
   const { port } = httpServer.address() as AddressInfo;
   console.log(`Tarebook listening on http://localhost:${port}`);
+  app.locals.publicUrl = config.publicUrl ?? `http://localhost:${port}`;
+  mailer?.kick(); // deliver what was queued before a restart (and the demo seed's messages)
 
   let closing = false;
   const shutdown = async (signal: string) => {
@@ -84,6 +97,8 @@ async function main(): Promise<void> {
     httpServer.closeIdleConnections?.();
     await new Promise<void>((resolve) => httpServer.close(() => resolve()));
     await vite?.close();
+    mailer?.close();
+    await fakeSmtp?.close();
     await sequelize.close();
     process.exit(0);
   };

@@ -7,6 +7,8 @@ import { certificatesRouter } from './certificates.routes.ts';
 import { healthRouter } from './health.routes.ts';
 import { inventoryRouter } from './inventory.routes.ts';
 import { preparationsRouter } from './preparations.routes.ts';
+import { signaturesRouter } from './signatures.routes.ts';
+import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
 
@@ -21,6 +23,8 @@ export function apiRouter(config: Config): Router {
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());
+  router.use(signaturesRouter(config));
+  router.use(outboxRouter());
   router.use(auditRouter());
   return router;
 }

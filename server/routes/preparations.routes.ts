@@ -55,20 +55,20 @@ export function preparationsRouter(): Router {
   });
 
   router.get('/preparations/:key', requireAuth, async (req, res) => {
-    res.json(await preparations.getPreparation(keyOf(req.params.key)));
+    res.json(await preparations.getPreparation(keyOf(req.params.key), req.user!.id));
   });
 
   router.post('/preparations/:key/weighings', requireRole('chemist', 'technician'), async (req, res) => {
     const input = weighingInputSchema.parse(req.body) as WeighingInput;
     await withGates(res, async () => {
-      res.status(201).json(await preparations.recordWeighing(keyOf(req.params.key), input, actor(req.user!)));
+      res.status(201).json(await preparations.recordWeighing(keyOf(req.params.key), input, actor(req.user!), { lockoutThreshold: req.app.locals.lockoutThreshold }));
     });
   });
 
   router.post('/preparations/:key/make-up', requireRole('chemist', 'technician'), async (req, res) => {
     const input = makeUpInputSchema.parse(req.body);
     await withGates(res, async () => {
-      res.status(201).json(await preparations.recordMakeUp(keyOf(req.params.key), input, actor(req.user!)));
+      res.status(201).json(await preparations.recordMakeUp(keyOf(req.params.key), input, actor(req.user!), { lockoutThreshold: req.app.locals.lockoutThreshold }));
     });
   });
 

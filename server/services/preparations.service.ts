@@ -36,6 +36,8 @@ import { CALC_VERSION, computeResult, flaskVolumeUncertainty, planNumbers, readi
 import { hazardsFor } from './preparation-hazards.ts';
 import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from './preparation-snapshots.ts';
 import { getSettings } from './settings.service.ts';
+import { checkChange, recordAmendment, signatureView } from './signatures.service.ts';
+import { dataEntryMode } from './preparation-status.ts';
 
 export interface Actor {
   id: number;
@@ -45,6 +47,8 @@ export interface Actor {
 /** `now` exists for the demo seed (fixed dates); routes always use the server clock. */
 export interface WriteOptions {
   now?: Date;
+  /** consecutive password failures that lock the account (config.lockoutThreshold; default 5) */
+  lockoutThreshold?: number;
 }
 
 /** 422 when a blocking gate fires; the route sends `{ error: { code, message, gates } }`. */
@@ -303,7 +307,7 @@ export async function createPreparation(input: CreatePreparationInput, actor: Ac
     );
     return prep.id;
   });
-  return getPreparation(String(id));
+  return getPreparation(String(id), actor.id);
 }
 
 // ------------------------------------------------------------------ reading
@@ -399,7 +403,7 @@ function activeWeighing(weighings: Weighing[]): Weighing | undefined {
   return weighings.filter((w) => !superseded.has(w.id)).at(-1);
 }
 
-async function detailOf(p: Preparation): Promise<PreparationDetail> {
+async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationDetail> {
   const [weighings, makeUps, events] = await Promise.all([
     Weighing.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
     MakeUp.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
@@ -430,6 +434,7 @@ async function detailOf(p: Preparation): Promise<PreparationDetail> {
     hazards: hazardsFor(p.snapshotMaterial),
     statusHistory: events.map((e) => ({ status: e.status, at: e.at, by: { id: e.byId, fullName: e.byName }, ...(e.note ? { note: e.note } : {}) })),
     expiry: { expiresOn: p.expiresOn, reason: p.expiryReason },
+    ...(await signatureView(p, weighings, makeUps, viewerId)),
   };
   if (p.notes) detail.notes = p.notes;
   if (latestMakeUp) detail.makeUp = makeUpDto(latestMakeUp, users);
@@ -437,9 +442,9 @@ async function detailOf(p: Preparation): Promise<PreparationDetail> {
   return detail;
 }
 
-/** GET /api/preparations/:key (numeric id or identifier). */
-export async function getPreparation(key: string): Promise<PreparationDetail> {
-  return detailOf(await findPreparation(key));
+/** GET /api/preparations/:key (numeric id or identifier); canSign is computed for `viewerId`. */
+export async function getPreparation(key: string, viewerId?: number): Promise<PreparationDetail> {
+  return detailOf(await findPreparation(key), viewerId);
 }
 
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
@@ -541,6 +546,7 @@ function usableBalanceGates(b: BalanceDto, today: string): Gate[] {
 export async function recordWeighing(key: string, input: WeighingInput, actor: Actor, opts: WriteOptions = {}): Promise<PreparationDetail> {
   const now = opts.now ?? new Date();
   const prep = await findPreparation(key);
+  dataEntryMode(prep.identifier, prep.status); // 409 when expired or discarded
   const settings = await getSettings();
   const today = labDate(now, settings.timeZone);
   const balanceId = input.balanceId ?? prep.balanceId;
@@ -610,8 +616,14 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
     }
   }
 
+  // a signed record changes only with a reason and the changer's "amended" signature (REQUIREMENTS CO-01, CO-02)
+  const amendment = await checkChange(prep, actor, input.signature, input.correctionReason, { lockoutThreshold: opts.lockoutThreshold ?? 5 });
   const at = now.toISOString();
   await writeTransaction(async (transaction) => {
+    if (amendment) {
+      await prep.reload({ transaction });
+      if (prep.version !== amendment.fromVersion) throw AppError.conflict(`${prep.identifier} changed meanwhile (now version ${prep.version}); reload it and try again`);
+    }
     const w = await Weighing.create(
       {
         preparationId: prep.id,
@@ -658,8 +670,9 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
     if (w.supersedesId !== null) {
       await recordAudit({ actor, action: 'weighing_superseded', entity: 'weighing', entityId: w.supersedesId, changes: [{ field: 'supersededById', oldValue: null, newValue: w.id }], reason: w.correctionReason }, transaction);
     }
+    if (amendment) await recordAmendment(prep, amendment, transaction, now);
   });
-  return getPreparation(String(prep.id));
+  return getPreparation(String(prep.id), actor.id);
 }
 
 // ------------------------------------------------------------------ make-up
@@ -668,6 +681,7 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
 export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor, opts: WriteOptions = {}): Promise<PreparationDetail> {
   const now = opts.now ?? new Date();
   const prep = await findPreparation(key);
+  dataEntryMode(prep.identifier, prep.status); // 409 when expired or discarded
   const settings = await getSettings();
   const today = labDate(now, settings.timeZone);
 
@@ -708,9 +722,14 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
     throw AppError.validation(`A make-up is already recorded for ${prep.identifier}`, { correctionReason: 'A make-up is already recorded: give the reason for recording a new one' });
   }
 
+  const amendment = await checkChange(prep, actor, input.signature, input.correctionReason, { lockoutThreshold: opts.lockoutThreshold ?? 5 });
   const at = now.toISOString();
   const expiry = expiryOf(prep.snapshotMaterial, settings, today);
   await writeTransaction(async (transaction) => {
+    if (amendment) {
+      await prep.reload({ transaction });
+      if (prep.version !== amendment.fromVersion) throw AppError.conflict(`${prep.identifier} changed meanwhile (now version ${prep.version}); reload it and try again`);
+    }
     const m = await MakeUp.create(
       {
         preparationId: prep.id,
@@ -757,6 +776,7 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
       },
       transaction,
     );
+    if (amendment) await recordAmendment(prep, amendment, transaction, now);
   });
-  return getPreparation(String(prep.id));
+  return getPreparation(String(prep.id), actor.id);
 }

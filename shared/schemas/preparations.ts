@@ -490,6 +490,8 @@ export interface CanSign {
   discard: boolean;
   /** keyed by prepare | verify | return | discard: why that action is not allowed for this user now */
   reasons: Record<string, string>;
+  /** true until the user has acknowledged SIGNATURE_RESPONSIBILITY_STATEMENT (send acknowledgeResponsibility: true) */
+  acknowledgementRequired?: boolean;
 }
 
 /** Body of POST /api/preparations/:key/signatures → PreparationDetail (201). */
@@ -511,6 +513,8 @@ export type SignatureInput = z.output<typeof signatureInputSchema>;
 /** `signature` next to `correctionReason` on a weighing or make-up that changes a signed record. */
 export const changeSignatureSchema = z.object({
   password: z.string({ error: 'Enter your password to sign the change' }).min(1, 'Enter your password to sign the change').max(200, 'Use at most 200 characters'),
+  /** required the first time a user ever signs */
+  acknowledgeResponsibility: z.literal(true, { error: 'Tick the statement to acknowledge it' }).optional(),
 });
 export type ChangeSignatureInput = z.output<typeof changeSignatureSchema>;
 

@@ -53,6 +53,7 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/audit/actors', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'post', path: '/api/audit/verify', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'get', path: '/api/audit/records/:entity/:entityId', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/outbox', allowed: ['admin'], ok: 200 },
 ];
 
 /**
@@ -78,6 +79,8 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'GET /api/preparations/:key': 'preparations.test.ts',
   'POST /api/preparations/:key/weighings': 'preparations.test.ts',
   'POST /api/preparations/:key/make-up': 'preparations.test.ts',
+  'POST /api/preparations/:key/signatures': 'signatures.test.ts',
+  'GET /api/outbox/:id': 'mail.test.ts',
 };
 
 function expected(row: Row, who: Who): number {

@@ -11,6 +11,8 @@ import { initPreparations } from './preparation.model.ts';
 import { initSetting } from './setting.model.ts';
 import { initUser } from './user.model.ts';
 import { initWeighing } from './weighing.model.ts';
+import { initSignatures } from './signature.model.ts';
+import { initMail } from './mail.model.ts';
 
 export { User } from './user.model.ts';
 export { AuditEntry } from './audit-entry.model.ts';
@@ -20,6 +22,8 @@ export { MaterialCertificate } from './certificate.model.ts';
 export { Preparation, PreparationEvent, PreparationSequence, type StoredPlan } from './preparation.model.ts';
 export { Weighing } from './weighing.model.ts';
 export { MakeUp } from './make-up.model.ts';
+export { Signature, RecordVersion, SignatureAcknowledgement, ReviewFlag } from './signature.model.ts';
+export { MailQueueItem, FakeMail, type MailStatus } from './mail.model.ts';
 
 const bound = new WeakSet<Sequelize>();
 
@@ -30,6 +34,8 @@ export function initModels(sequelize: Sequelize) {
   initPreparations(sequelize);
   initWeighing(sequelize);
   initMakeUp(sequelize);
+  initSignatures(sequelize);
+  initMail(sequelize);
   bound.add(sequelize);
   return models;
 }

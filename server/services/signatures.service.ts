@@ -1,0 +1,590 @@
+/**
+ * Electronic signatures and second-person verification (REQUIREMENTS ES-01…ES-08, RV-01…RV-03, RV-06, CO-01, CO-02).
+ *
+ * - A signature needs the signed-in identity and the password re-entered at each signing (ES-04); a wrong
+ *   password is 401 signature_password, counted towards the account lockout (PW-03) and audited
+ *   ("signature_failed"). Success is audited ("sign", with the meaning and the record version).
+ * - Each signature stores the record version and the SHA-256 of the canonical JSON of that version (ES-03).
+ *   The canonical JSON is stored once per signed version in record_versions. Validity is computed: a
+ *   signature is valid while the record's version and hash are still the ones it signed.
+ * - "verified" and "returned" need a chemist who did not plan, enter or change any data in the current
+ *   version and did not sign it "prepared" (RV-02); a refusal is 403 self_verification and audited.
+ * - A change to a signed record (checkChange / recordAmendment, called by preparations.service) needs a reason
+ *   and the changer's password; it records an "amended" signature, and the status goes back to planned.
+ * - E-mails (verification requested, returned, verified) are queued in the same transaction and sent after commit.
+ *
+ * RECORD HASH. recordHash = SHA-256 (hex) of canonicalJson (server/db/transaction.ts: keys sorted, no
+ * whitespace, decimal strings as strings) of exactly:
+ *   { preparationId, identifier, version, inputs, notes, conditionsUsed,
+ *     snapshot: { material, balance, flask }, plan (as stored, with the core's response), gates,
+ *     weighings: every weighing (superseded ones too), oldest first, each { id, mode, reading, before, after,
+ *       unit, netMg, balanceId, balanceSnapshot, conditions, airDensity, inWindow, outOfWindowReason,
+ *       supersedesId, correctionReason, recordedBy, recordedAt },
+ *     makeUps: every make-up, oldest first, each { id, flaskId, flaskIdentifier, flaskSnapshot, substituted,
+ *       solventId, solventLot, solventSnapshot, solutionTemperatureC, applyTemperatureCorrection,
+ *       correctionReason, supersedesId, recordedBy, recordedAt },
+ *     result, expiresOn, expiryReason }
+ * Status, status history and the signatures themselves are not part of it (signing does not change the record).
+ */
+import { createHash } from 'node:crypto';
+import type { Transaction } from 'sequelize';
+import { parsePreparationId } from '../../shared/prep/index.ts';
+import {
+  SIGNATURE_MEANING_TEXT,
+  SIGNATURE_RESPONSIBILITY_STATEMENT,
+  VERIFICATION_CHECKLIST,
+  type CanSign,
+  type ChangeSignatureInput,
+  type PreparationDetail,
+  type Signature as SignatureDto,
+  type SignatureInput,
+  type SignatureMeaning,
+} from '../../shared/schemas/preparations.ts';
+import type { Role } from '../../shared/schemas/roles.ts';
+import {
+  MakeUp,
+  Preparation,
+  PreparationEvent,
+  RecordVersion,
+  ReviewFlag,
+  Signature,
+  SignatureAcknowledgement,
+  User,
+  Weighing,
+} from '../db/models/index.ts';
+import { canonicalJson, writeTransaction } from '../db/transaction.ts';
+import { AppError } from '../errors/app-error.ts';
+import { enqueueMail, type Mailer, type QueuedMail } from '../mail/mailer.ts';
+import { returnedMail, verificationRequestedMail, verifiedMail, type RecordRef } from '../mail/templates.ts';
+import { recordAudit } from './audit.service.ts';
+import { nextStatus, invalidTransition, transition, dataEntryMode, type StatusEvent } from './preparation-status.ts';
+import { verifyPassword } from './passwords.ts';
+
+export interface Signer {
+  id: number;
+  fullName: string;
+}
+
+export interface SignOptions {
+  lockoutThreshold: number;
+  /** base of the links in e-mails */
+  publicUrl: string;
+  mailer?: Mailer;
+  /** for the demo seed (fixed dates); routes use the server clock */
+  now?: Date;
+}
+
+const EVENT_OF: Record<SignatureInput['meaning'], StatusEvent> = {
+  prepared: 'sign_prepared',
+  verified: 'sign_verified',
+  returned: 'sign_returned',
+  discarded: 'sign_discarded',
+};
+
+/** Who may sign each meaning (REQUIREMENTS RV-07: admin never signs GxP data; technicians do not sign off). */
+const ROLES_FOR: Record<SignatureInput['meaning'], Role[]> = {
+  prepared: ['chemist'],
+  verified: ['chemist'],
+  returned: ['chemist'],
+  discarded: ['chemist', 'qa'],
+};
+
+const ROLE_TEXT: Record<SignatureInput['meaning'], string> = {
+  prepared: 'Only a chemist signs a record as prepared',
+  verified: 'Only a chemist other than the preparer verifies a record',
+  returned: 'Only a chemist other than the preparer returns a record',
+  discarded: 'Only a chemist or QA discards a record',
+};
+
+// ------------------------------------------------------------------ canonical record and hash
+
+export const sha256 = (text: string) => createHash('sha256').update(text, 'utf8').digest('hex');
+
+/** The object whose canonical JSON is hashed (fields listed in the header comment). */
+export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[]): Record<string, unknown> {
+  return {
+    preparationId: p.id,
+    identifier: p.identifier,
+    version: p.version,
+    inputs: p.inputs,
+    notes: p.notes,
+    conditionsUsed: p.conditionsUsed,
+    snapshot: { material: p.snapshotMaterial, balance: p.snapshotBalance, flask: p.snapshotFlask },
+    plan: p.plan,
+    gates: p.gates,
+    weighings: weighings.map((w) => ({
+      id: w.id,
+      mode: w.mode,
+      reading: w.reading,
+      before: w.beforeReading,
+      after: w.afterReading,
+      unit: w.unit,
+      netMg: w.netMg,
+      balanceId: w.balanceId,
+      balanceSnapshot: w.balanceSnapshot,
+      conditions: w.conditions,
+      airDensity: w.airDensity,
+      inWindow: Boolean(w.inWindow),
+      outOfWindowReason: w.outOfWindowReason,
+      supersedesId: w.supersedesId,
+      correctionReason: w.correctionReason,
+      recordedBy: w.recordedBy,
+      recordedAt: w.recordedAt,
+    })),
+    makeUps: makeUps.map((m) => ({
+      id: m.id,
+      flaskId: m.flaskId,
+      flaskIdentifier: m.flaskIdentifier,
+      flaskSnapshot: m.flaskSnapshot,
+      substituted: Boolean(m.substituted),
+      solventId: m.solventId,
+      solventLot: m.solventLot,
+      solventSnapshot: m.solventSnapshot,
+      solutionTemperatureC: m.solutionTemperatureC,
+      applyTemperatureCorrection: Boolean(m.applyTemperatureCorrection),
+      correctionReason: m.correctionReason,
+      supersedesId: m.supersedesId,
+      recordedBy: m.recordedBy,
+      recordedAt: m.recordedAt,
+    })),
+    result: p.result,
+    expiresOn: p.expiresOn,
+    expiryReason: p.expiryReason,
+  };
+}
+
+export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: MakeUp[]): { canonical: string; hash: string } {
+  const canonical = canonicalJson(recordForHash(p, weighings, makeUps));
+  return { canonical, hash: sha256(canonical) };
+}
+
+async function entriesOf(preparationId: number, transaction?: Transaction) {
+  const [weighings, makeUps] = await Promise.all([
+    Weighing.findAll({ where: { preparationId }, order: [['id', 'ASC']], transaction }),
+    MakeUp.findAll({ where: { preparationId }, order: [['id', 'ASC']], transaction }),
+  ]);
+  return { weighings, makeUps };
+}
+
+/** The canonical JSON and hash of the record as it is now. */
+export async function currentRecordHash(preparationId: number, transaction?: Transaction): Promise<{ canonical: string; hash: string; version: number }> {
+  const p = await Preparation.findByPk(preparationId, { transaction });
+  if (!p) throw AppError.notFound(`Preparation ${preparationId}`);
+  const { weighings, makeUps } = await entriesOf(p.id, transaction);
+  return { ...canonicalRecord(p, weighings, makeUps), version: p.version };
+}
+
+async function storeVersion(p: Preparation, canonical: string, hash: string, at: string, transaction: Transaction) {
+  const existing = await RecordVersion.findOne({ where: { preparationId: p.id, version: p.version, recordHash: hash }, transaction });
+  if (!existing) await RecordVersion.create({ preparationId: p.id, version: p.version, canonicalJson: canonical, recordHash: hash, createdAt: at }, { transaction });
+}
+
+export interface SignatureCheck {
+  signatureId: number;
+  meaning: SignatureMeaning;
+  recordVersion: number;
+  ok: boolean;
+  problem?: string;
+}
+
+/**
+ * Integrity check of every signature on a record: the stored version it names exists for this record, its
+ * canonical JSON hashes to the signature's recordHash and names this record and version; a signature that
+ * claims the current version must match the record as it is now.
+ */
+export async function verifySignatures(preparationId: number): Promise<SignatureCheck[]> {
+  const sigs = await Signature.findAll({ where: { preparationId }, order: [['id', 'ASC']] });
+  const now = await currentRecordHash(preparationId);
+  const out: SignatureCheck[] = [];
+  for (const s of sigs) {
+    const base = { signatureId: s.id, meaning: s.meaning, recordVersion: s.recordVersion };
+    const rv = await RecordVersion.findOne({ where: { preparationId, version: s.recordVersion, recordHash: s.recordHash } });
+    let problem: string | undefined;
+    if (!rv) problem = `no stored version ${s.recordVersion} of this record has the signed hash`;
+    else if (sha256(rv.canonicalJson) !== s.recordHash) problem = 'the stored version does not hash to the signed hash';
+    else {
+      const signed = JSON.parse(rv.canonicalJson) as { preparationId?: number; version?: number };
+      if (signed.preparationId !== preparationId) problem = `the signed content belongs to preparation ${signed.preparationId}`;
+      else if (signed.version !== s.recordVersion) problem = `the signed content is version ${signed.version}, not ${s.recordVersion}`;
+      else if (s.recordVersion === now.version && s.recordHash !== now.hash) problem = `the record changed without a new version since it was signed at version ${s.recordVersion}`;
+    }
+    out.push(problem ? { ...base, ok: false, problem } : { ...base, ok: true });
+  }
+  return out;
+}
+
+// ------------------------------------------------------------------ who may sign what
+
+interface State {
+  p: Preparation;
+  weighings: Weighing[];
+  makeUps: MakeUp[];
+  sigs: Signature[];
+  hash: string;
+}
+
+const isValid = (s: Signature, st: Pick<State, 'p' | 'hash'>) => s.recordVersion === st.p.version && s.recordHash === st.hash;
+
+function activeWeighing(weighings: Weighing[]): Weighing | undefined {
+  const superseded = new Set(weighings.map((w) => w.supersedesId).filter((x): x is number => x !== null));
+  return weighings.filter((w) => !superseded.has(w.id)).at(-1);
+}
+
+/**
+ * Everyone who cannot verify the current version, with the reason (RV-02): the planner (the plan is part of
+ * every version), the recorders of the current weighing and make-up, anyone who entered data since the last
+ * amendment, the amender, and whoever signed the current version "prepared".
+ */
+export function excludedVerifiers(st: State): Map<number, string> {
+  const out = new Map<number, string>();
+  const add = (id: number, why: string) => {
+    if (!out.has(id)) out.set(id, why);
+  };
+  const lastAmend = [...st.sigs].reverse().find((s) => s.meaning === 'amended');
+  for (const s of st.sigs) if (s.meaning === 'prepared' && isValid(s, st)) add(s.signerId, 'you signed this version as prepared');
+  if (lastAmend) add(lastAmend.signerId, `you amended this record (version ${lastAmend.recordVersion})`);
+  add(st.p.createdBy, 'you planned this record');
+  const w = activeWeighing(st.weighings);
+  if (w) add(w.recordedBy, 'you recorded the weighing in this version');
+  const m = st.makeUps.at(-1);
+  if (m) add(m.recordedBy, 'you recorded the make-up in this version');
+  const since = lastAmend?.signedAt ?? '';
+  for (const e of [...st.weighings, ...st.makeUps]) if (e.recordedAt >= since) add(e.recordedBy, 'you entered or changed data in this version');
+  return out;
+}
+
+function completeness(st: State): string | null {
+  if (!activeWeighing(st.weighings)) return 'record the weighing first';
+  if (!st.makeUps.length) return 'record the make-up first';
+  if (!st.p.result) return 'the result has not been computed';
+  return null;
+}
+
+function refusal(st: State, meaning: SignatureInput['meaning'], user: { id: number; role: Role }): { status: number; code: string; message: string } | null {
+  const id = st.p.identifier;
+  if (!ROLES_FOR[meaning].includes(user.role)) return { status: 403, code: 'forbidden', message: ROLE_TEXT[meaning] };
+  const event = EVENT_OF[meaning];
+  if (!nextStatus(st.p.status, event)) return { status: 409, code: 'invalid_transition', message: invalidTransition(id, st.p.status, event).message };
+  if (meaning === 'prepared') {
+    const missing = completeness(st);
+    if (missing) return { status: 409, code: 'invalid_transition', message: invalidTransition(id, st.p.status, event, missing).message };
+  }
+  if (meaning === 'verified' || meaning === 'returned') {
+    const why = excludedVerifiers(st).get(user.id);
+    if (why) return { status: 403, code: 'self_verification', message: `You cannot ${meaning === 'verified' ? 'verify' : 'return'} ${id}: ${why}. A second chemist must review it.` };
+  }
+  return null;
+}
+
+async function loadState(p: Preparation, transaction?: Transaction): Promise<State> {
+  const [{ weighings, makeUps }, sigs] = await Promise.all([entriesOf(p.id, transaction), Signature.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction })]);
+  return { p, weighings, makeUps, sigs, hash: canonicalRecord(p, weighings, makeUps).hash };
+}
+
+function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash'>): SignatureDto {
+  const dto: SignatureDto = {
+    id: s.id,
+    meaning: s.meaning,
+    meaningText: s.meaningText,
+    signer: { id: s.signerId, fullName: s.signerName },
+    signedAt: s.signedAt,
+    recordVersion: s.recordVersion,
+    recordHash: s.recordHash,
+    valid: isValid(s, st),
+  };
+  if (s.reason) dto.reason = s.reason;
+  if (s.checklist) dto.checklist = s.checklist;
+  return dto;
+}
+
+type SignatureView = Pick<PreparationDetail, 'signatures' | 'verificationChecklist' | 'canSign'> & Partial<Pick<PreparationDetail, 'amendedFromVersion' | 'reviewFlag'>>;
+
+/** The signature fields of PreparationDetail, with canSign for the viewing user (none: all false). */
+export async function signatureView(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], viewerId?: number): Promise<SignatureView> {
+  const [sigs, flag, viewer, ack] = await Promise.all([
+    Signature.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
+    ReviewFlag.findOne({ where: { preparationId: p.id }, order: [['id', 'DESC']] }),
+    viewerId ? User.findByPk(viewerId) : Promise.resolve(null),
+    viewerId ? SignatureAcknowledgement.findByPk(viewerId) : Promise.resolve(null),
+  ]);
+  const st: State = { p, weighings, makeUps, sigs, hash: canonicalRecord(p, weighings, makeUps).hash };
+  const canSign: CanSign = { prepare: false, verify: false, return: false, discard: false, reasons: {} };
+  const actions = { prepare: 'prepared', verify: 'verified', return: 'returned', discard: 'discarded' } as const;
+  for (const [action, meaning] of Object.entries(actions) as Array<[keyof typeof actions, SignatureInput['meaning']]>) {
+    const why = viewer ? refusal(st, meaning, { id: viewer.id, role: viewer.role }) : { message: 'Sign in to sign' };
+    if (why) canSign.reasons[action] = why.message;
+    else canSign[action] = true;
+  }
+  if (viewer) canSign.acknowledgementRequired = !ack;
+  const view: SignatureView = {
+    signatures: sigs.map((s) => signatureDto(s, st)),
+    verificationChecklist: VERIFICATION_CHECKLIST.map((c) => ({ ...c })),
+    canSign,
+  };
+  const lastAmend = [...sigs].reverse().find((s) => s.meaning === 'amended');
+  if (lastAmend?.amendsVersion) view.amendedFromVersion = lastAmend.amendsVersion;
+  if (flag) view.reviewFlag = { reason: flag.reason, flaggedAt: flag.flaggedAt };
+  return view;
+}
+
+// ------------------------------------------------------------------ password (two components, ES-04)
+
+const LOCKED = () => new AppError('account_locked', 423, 'This account is locked after repeated failed passwords; ask an administrator to unlock it');
+
+/**
+ * Checks the signer's password against their stored hash. A failure is counted towards the lockout and
+ * audited in its own committed transaction, then 401 signature_password (423 once locked).
+ */
+async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number): Promise<void> {
+  if (user.lockedAt) throw LOCKED();
+  if (await verifyPassword(password, user.passwordHash)) return;
+  let nowLocked = false;
+  await writeTransaction(async (transaction) => {
+    await user.reload({ transaction });
+    const before = user.failedLoginCount ?? 0;
+    user.failedLoginCount = before + 1;
+    nowLocked = !user.lockedAt && user.failedLoginCount >= lockoutThreshold;
+    if (nowLocked) user.lockedAt = new Date().toISOString();
+    await user.save({ transaction });
+    const actor = { id: user.id, fullName: user.fullName };
+    await recordAudit(
+      { actor, action: 'signature_failed', entity: 'preparation', entityId: preparationId, changes: [{ field: 'failedLoginCount', oldValue: before, newValue: user.failedLoginCount }], reason: `Wrong password when signing ${what}` },
+      transaction,
+    );
+    if (nowLocked) {
+      await recordAudit(
+        { actor: null, action: 'account_locked', entity: 'user', entityId: user.id, changes: [{ field: 'locked', oldValue: false, newValue: true }], reason: `${user.failedLoginCount} consecutive failed passwords (sign-in or signing)` },
+        transaction,
+      );
+    }
+  });
+  if (nowLocked) throw LOCKED();
+  throw new AppError('signature_password', 401, 'The password is not correct; the record was not signed', { fields: { password: 'The password is not correct' } });
+}
+
+async function resetFailures(user: User, transaction: Transaction) {
+  await user.reload({ transaction });
+  if ((user.failedLoginCount ?? 0) !== 0) {
+    user.failedLoginCount = 0;
+    await user.save({ transaction });
+  }
+}
+
+// ------------------------------------------------------------------ signing
+
+async function findByKey(key: string): Promise<Preparation> {
+  let p: Preparation | null = null;
+  if (/^[1-9]\d{0,15}$/.test(key)) p = await Preparation.findByPk(Number(key));
+  else if (parsePreparationId(key)) p = await Preparation.findOne({ where: { identifier: key } });
+  if (!p) throw AppError.notFound(`Preparation ${key}`);
+  return p;
+}
+
+function recordRef(p: Preparation): RecordRef {
+  return { identifier: p.identifier, materialName: p.snapshotMaterial.name, analyteFormula: p.analyteFormula, concentrationDisplay: p.concentrationDisplay, version: p.version };
+}
+
+async function mailsFor(meaning: SignatureInput['meaning'], st: State, signer: Signer, reason: string | undefined, publicUrl: string): Promise<QueuedMail[]> {
+  const ref = recordRef(st.p);
+  const base = { preparationId: st.p.id };
+  if (meaning === 'prepared') {
+    const chemists = await User.findAll({ where: { role: 'chemist', active: true }, order: [['id', 'ASC']] });
+    const content = verificationRequestedMail(ref, signer.fullName, publicUrl);
+    return chemists.filter((c) => c.id !== signer.id && !c.lockedAt).map((c) => ({ ...base, ...content, kind: 'verification_requested', to: c.email }));
+  }
+  if (meaning === 'returned' || meaning === 'verified') {
+    const prepared = [...st.sigs].reverse().find((s) => s.meaning === 'prepared' && isValid(s, st));
+    const preparer = prepared ? await User.findByPk(prepared.signerId) : null;
+    if (!preparer) return [];
+    const content = meaning === 'returned' ? returnedMail(ref, signer.fullName, reason ?? '', publicUrl) : verifiedMail(ref, signer.fullName, publicUrl);
+    return [{ ...base, ...content, kind: meaning, to: preparer.email }];
+  }
+  return [];
+}
+
+async function auditRefusal(signer: Signer, p: Preparation, meaning: string, message: string) {
+  await writeTransaction((transaction) =>
+    recordAudit({ actor: signer, action: 'signature_refused', entity: 'preparation', entityId: p.id, changes: [{ field: 'meaning', oldValue: null, newValue: meaning }, { field: 'recordVersion', oldValue: null, newValue: p.version }], reason: message }, transaction),
+  );
+}
+
+/** POST /api/preparations/:key/signatures. Returns the preparation id; the route sends the detail. */
+export async function sign(key: string, input: SignatureInput, signer: Signer, opts: SignOptions): Promise<number> {
+  const now = opts.now ?? new Date();
+  const p = await findByKey(key);
+  const user = await User.findByPk(signer.id);
+  if (!user || !user.active) throw new AppError('unauthenticated', 401, 'Sign in to continue');
+  const st = await loadState(p);
+  const refused = refusal(st, input.meaning, { id: user.id, role: user.role });
+  if (refused) {
+    if (refused.code === 'self_verification') await auditRefusal(signer, p, input.meaning, refused.message);
+    throw new AppError(refused.code, refused.status, refused.message);
+  }
+  if (input.meaning === 'verified') {
+    const missing = VERIFICATION_CHECKLIST.filter((c) => input.checklist?.[c.key] !== true);
+    if (missing.length) {
+      throw AppError.validation(`Tick every checklist item before verifying (${missing.length} not ticked)`, Object.fromEntries(missing.map((c) => [`checklist.${c.key}`, `Tick: ${c.label}`])));
+    }
+  }
+  const acknowledged = await SignatureAcknowledgement.findByPk(user.id);
+  if (!acknowledged && input.acknowledgeResponsibility !== true) {
+    throw AppError.validation('Acknowledge the signature statement before your first signature', { acknowledgeResponsibility: SIGNATURE_RESPONSIBILITY_STATEMENT });
+  }
+  await checkSignerPassword(user, input.password, `"${input.meaning}"`, p.id, opts.lockoutThreshold);
+
+  const at = now.toISOString();
+  await writeTransaction(async (transaction) => {
+    await p.reload({ transaction });
+    const fresh = await loadState(p, transaction);
+    if (fresh.hash !== st.hash || p.status !== st.p.status) {
+      throw new AppError('conflict', 409, `${p.identifier} changed while you were signing (now version ${p.version}, state '${p.status}'); review it again`);
+    }
+    const from = p.status;
+    const to = transition(p.identifier, from, EVENT_OF[input.meaning]);
+    const { canonical, hash } = canonicalRecord(p, fresh.weighings, fresh.makeUps);
+    await storeVersion(p, canonical, hash, at, transaction);
+    if (!acknowledged) await SignatureAcknowledgement.create({ userId: user.id, statement: SIGNATURE_RESPONSIBILITY_STATEMENT, acknowledgedAt: at }, { transaction });
+    await resetFailures(user, transaction);
+    const s = await Signature.create(
+      {
+        preparationId: p.id,
+        meaning: input.meaning,
+        meaningText: SIGNATURE_MEANING_TEXT[input.meaning],
+        signerId: user.id,
+        signerName: user.fullName,
+        signedAt: at,
+        recordVersion: p.version,
+        recordHash: hash,
+        reason: input.reason ? input.reason : null,
+        checklist: input.meaning === 'verified' ? Object.fromEntries(VERIFICATION_CHECKLIST.map((c) => [c.key, true as const])) : null,
+        amendsVersion: null,
+      },
+      { transaction },
+    );
+    p.status = to;
+    p.updatedAt = at;
+    await p.save({ transaction });
+    await PreparationEvent.create({ preparationId: p.id, status: to, note: input.reason ? input.reason : null, byId: user.id, byName: user.fullName, at }, { transaction });
+    await recordAudit(
+      {
+        actor: { id: user.id, fullName: user.fullName },
+        action: 'sign',
+        entity: 'preparation',
+        entityId: p.id,
+        changes: [
+          { field: 'status', oldValue: from, newValue: to },
+          { field: 'signature.meaning', oldValue: null, newValue: input.meaning },
+          { field: 'signature.recordVersion', oldValue: null, newValue: p.version },
+          { field: 'signature.recordHash', oldValue: null, newValue: hash },
+          { field: 'signature.id', oldValue: null, newValue: s.id },
+        ],
+        reason: input.reason ?? null,
+      },
+      transaction,
+    );
+    await enqueueMail(await mailsFor(input.meaning, { ...fresh, sigs: [...fresh.sigs, s] }, signer, input.reason, opts.publicUrl), transaction, now);
+  });
+  opts.mailer?.kick();
+  return p.id;
+}
+
+// ------------------------------------------------------------------ changes to a signed record (CO-01, CO-02)
+
+export interface PendingAmendment {
+  fromVersion: number;
+  reason: string;
+  user: User;
+  acknowledge: boolean;
+}
+
+/**
+ * Before a weighing or make-up is stored: null when the record is planned (no signature needed); 409 when it is
+ * closed (expired, discarded); for a signed record, the chemist's reason and password are checked (401 counted)
+ * and the amendment to record in the same transaction as the change is returned.
+ */
+export async function checkChange(p: Preparation, actor: Signer, signature: ChangeSignatureInput | undefined, reason: string | undefined | null, opts: { lockoutThreshold: number }): Promise<PendingAmendment | null> {
+  if (dataEntryMode(p.identifier, p.status) === 'free') return null;
+  const user = await User.findByPk(actor.id);
+  if (!user || !user.active) throw new AppError('unauthenticated', 401, 'Sign in to continue');
+  if (user.role !== 'chemist') {
+    throw new AppError('forbidden', 403, `${p.identifier} is signed ('${p.status}'): only a chemist can amend it, with a reason and an "amended" signature`);
+  }
+  if (!reason || reason.trim().length < 3) {
+    throw AppError.validation(`${p.identifier} is signed: give the reason for the change`, { correctionReason: `${p.identifier} is signed ('${p.status}'): give the reason for the change` });
+  }
+  if (!signature?.password) {
+    throw AppError.validation(`${p.identifier} is signed: enter your password to sign the amendment`, { 'signature.password': `${p.identifier} is signed ('${p.status}'): enter your password to sign the change as "amended"` });
+  }
+  const acknowledged = await SignatureAcknowledgement.findByPk(user.id);
+  if (!acknowledged && signature.acknowledgeResponsibility !== true) {
+    throw AppError.validation('Acknowledge the signature statement before your first signature', { 'signature.acknowledgeResponsibility': SIGNATURE_RESPONSIBILITY_STATEMENT });
+  }
+  await checkSignerPassword(user, signature.password, 'an amendment', p.id, opts.lockoutThreshold);
+  return { fromVersion: p.version, reason: reason.trim(), user, acknowledge: !acknowledged };
+}
+
+/**
+ * Inside the change's transaction, after the data change (p.version already incremented): the "amended"
+ * signature on the new version, every earlier signature superseded (their version no longer matches), the
+ * status back to planned, audited.
+ */
+export async function recordAmendment(p: Preparation, amendment: PendingAmendment, transaction: Transaction, now: Date): Promise<void> {
+  const at = now.toISOString();
+  const { user } = amendment;
+  const from = p.status;
+  const to = transition(p.identifier, from, 'amend');
+  const { weighings, makeUps } = await entriesOf(p.id, transaction);
+  const { canonical, hash } = canonicalRecord(p, weighings, makeUps);
+  await storeVersion(p, canonical, hash, at, transaction);
+  if (amendment.acknowledge) await SignatureAcknowledgement.create({ userId: user.id, statement: SIGNATURE_RESPONSIBILITY_STATEMENT, acknowledgedAt: at }, { transaction });
+  await resetFailures(user, transaction);
+  const superseded = await Signature.count({ where: { preparationId: p.id }, transaction });
+  const s = await Signature.create(
+    {
+      preparationId: p.id,
+      meaning: 'amended',
+      meaningText: SIGNATURE_MEANING_TEXT.amended,
+      signerId: user.id,
+      signerName: user.fullName,
+      signedAt: at,
+      recordVersion: p.version,
+      recordHash: hash,
+      reason: amendment.reason,
+      checklist: null,
+      amendsVersion: amendment.fromVersion,
+    },
+    { transaction },
+  );
+  p.status = to;
+  p.updatedAt = at;
+  await p.save({ transaction });
+  await PreparationEvent.create(
+    { preparationId: p.id, status: to, note: `Amended after signing (v${amendment.fromVersion} → v${p.version}): ${amendment.reason}`, byId: user.id, byName: user.fullName, at },
+    { transaction },
+  );
+  await recordAudit(
+    {
+      actor: { id: user.id, fullName: user.fullName },
+      action: 'sign',
+      entity: 'preparation',
+      entityId: p.id,
+      changes: [
+        { field: 'status', oldValue: from, newValue: to },
+        { field: 'signature.meaning', oldValue: null, newValue: 'amended' },
+        { field: 'signature.recordVersion', oldValue: amendment.fromVersion, newValue: p.version },
+        { field: 'signature.recordHash', oldValue: null, newValue: hash },
+        { field: 'signature.id', oldValue: null, newValue: s.id },
+        { field: 'signaturesSuperseded', oldValue: null, newValue: superseded },
+      ],
+      reason: amendment.reason,
+    },
+    transaction,
+  );
+}
+
+/** Marks records made from `sourceId` for review (used by the lineage feature when a parent is amended). */
+export async function flagForReview(preparationIds: number[], sourceId: number, reason: string, transaction: Transaction, now = new Date()): Promise<void> {
+  for (const preparationId of preparationIds) {
+    await ReviewFlag.create({ preparationId, sourcePreparationId: sourceId, reason, flaggedAt: now.toISOString() }, { transaction });
+  }
+}
