@@ -113,6 +113,7 @@ describe('inventory pages', () => {
       expect(await page.locator('[data-testid="expired-badge"]').count()).toBe(expiredOnPage);
       expect(await rowNames(page)).toEqual(firstPage.items.map((m) => m.name));
       await screenshot(page, 'e2e-inventory-materials-desktop', false);
+      await noPageOverflow(page);
 
       // Search (debounced, done by the server) and keep it in the address bar.
       await page.fill('[data-testid="list-search"]', 'nitrate');
@@ -271,6 +272,9 @@ describe('inventory pages', () => {
       await page.waitForSelector('[data-testid="min-weight"]');
       expect(await page.textContent('[data-testid="min-weight-value"]')).toBe(withMin.minWeightMg);
       expect(await page.textContent('[data-testid="min-weight-basis"]')).toContain('USP <41>: m_min = 2000·max(s, 0.41 d) × SF');
+      // USP <41> (METROLOGY §7) on the seeded BAL-A1: s = 0.08 mg > 0.41 × 0.1 mg, so 2000 × 0.08 = 160 mg; × SF 2 = 320 mg.
+      expect(withMin.identifier).toBe('BAL-A1');
+      expect(await page.textContent('[data-testid="min-weight-redo"]')).toContain('= 160 mg; × SF 2 = 320 mg');
       await page.setViewportSize(TABLET);
       await noPageOverflow(page);
       await screenshot(page, 'e2e-inventory-balance-detail-tablet');

@@ -1,4 +1,5 @@
 import { BALANCE_INPUT_STATUSES, balanceCreateInputSchema, balanceUpdateInputSchema, type Balance } from '../../../../shared/schemas/inventory.ts';
+import { uspMinimumWeight } from '../../../../shared/calc/min-weight.ts';
 import { Panel } from '../../../components/ui/feedback.tsx';
 import { CalibrationDueCell } from '../components/badges.tsx';
 import { DetailList, withUnit } from '../components/detail-list.tsx';
@@ -75,9 +76,25 @@ function toForm(b: Balance): FormValues {
   };
 }
 
+/**
+ * The USP <41> figure redone from the stored s, d and SF with the shared core, so the reader can see
+ * what the stored m_min corresponds to (with and without the safety factor). Null when s is missing.
+ */
+function recompute(s: string | null, d: string, sf: string | null): { bare: string; withSf: string | null } | null {
+  if (!s) return null;
+  try {
+    const bare = uspMinimumWeight({ repeatabilitySd: s, readability: d }).minimumWeight;
+    const withSf = sf ? uspMinimumWeight({ repeatabilitySd: s, readability: d, safetyFactor: sf }).minimumWeight : null;
+    return { bare: bare.toString(), withSf: withSf ? withSf.toString() : null };
+  } catch {
+    return null; // values the core refuses (e.g. SF < 1) are simply not redone here
+  }
+}
+
 /** The minimum weight with everything it rests on, so anyone can redo it by hand. */
 function MinWeightPanel({ b }: { b: Balance }) {
   const d = b.minWeightReadabilityMg ?? b.readabilityMg;
+  const redo = recompute(b.repeatabilitySdMg, d, b.minWeightSafetyFactor);
   return (
     <Panel title="Minimum weight" id="min-weight">
       <div className="flex flex-col gap-4" data-testid="min-weight">
@@ -101,6 +118,18 @@ function MinWeightPanel({ b }: { b: Balance }) {
           Basis: USP &lt;41&gt;: <span className="num">m_min = 2000·max(s, 0.41 d) × SF</span>. Net weighings below m_min are
           refused; the safety factor (USP &lt;1251&gt;) keeps routine weighings clear of it.
         </p>
+        {redo ? (
+          <p className="text-base" data-testid="min-weight-redo">
+            From the values above: 2000·max(<span className="num">{b.repeatabilitySdMg}</span>, 0.41 × <span className="num">{d}</span>) ={' '}
+            <span className="num font-semibold">{redo.bare}</span> mg
+            {redo.withSf ? (
+              <>
+                ; × SF <span className="num">{b.minWeightSafetyFactor}</span> = <span className="num font-semibold">{redo.withSf}</span> mg
+              </>
+            ) : null}
+            .
+          </p>
+        ) : null}
       </div>
     </Panel>
   );

@@ -39,8 +39,8 @@ export function ExpiryCell({ expiresOn }: { expiresOn: string | null }) {
   const state = expiryState(expiresOn);
   if (state === 'none') return <span className="text-ink-soft">{expiresOn ? expiresOn : 'none set'}</span>;
   return (
-    <span className="inline-flex flex-wrap items-center gap-2">
-      <span className="num whitespace-nowrap">{formatDate(expiresOn)}</span>
+    <span className="inline-flex flex-col items-start gap-1">
+      <span className="whitespace-nowrap">{formatDate(expiresOn)}</span>
       {state === 'expired' ? (
         <Badge tone="bad" testId="expired-badge">
           expired
@@ -54,8 +54,8 @@ export function CalibrationDueCell({ dueOn }: { dueOn: string | null }) {
   const state = calibrationState(dueOn);
   if (state === 'unknown') return <Badge tone="bad">no due date</Badge>;
   return (
-    <span className="inline-flex flex-wrap items-center gap-2">
-      <span className="num whitespace-nowrap">{formatDate(dueOn)}</span>
+    <span className="inline-flex flex-col items-start gap-1">
+      <span className="whitespace-nowrap">{formatDate(dueOn)}</span>
       {state === 'overdue' ? (
         <Badge tone="bad" testId="overdue-badge">
           overdue

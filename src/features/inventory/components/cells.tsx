@@ -4,9 +4,9 @@ import { Link } from 'react-router';
 /** The row's main name, as a link to its record (a full-height touch target). */
 export function RecordLink({ to, children, sub }: { to: string; children: ReactNode; sub?: ReactNode }) {
   return (
-    <Link to={to} className="flex min-h-12 flex-col justify-center font-semibold text-ink underline decoration-line underline-offset-4 hover:decoration-slate-700" data-testid="record-link">
-      <span>{children}</span>
-      {sub ? <span className="text-sm font-normal text-ink-soft no-underline">{sub}</span> : null}
+    <Link to={to} className="group flex min-h-12 min-w-32 flex-col justify-center font-semibold text-ink" data-testid="record-link">
+      <span className="underline decoration-line decoration-2 underline-offset-4 group-hover:decoration-slate-700">{children}</span>
+      {sub ? <span className="text-sm font-normal text-ink-soft">{sub}</span> : null}
     </Link>
   );
 }

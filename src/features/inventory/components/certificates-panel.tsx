@@ -127,7 +127,7 @@ export function CertificatesPanel({ materialId, canWrite }: { materialId: number
         {list.isError ? <Banner title="Could not load the certificates">{list.error.message}</Banner> : null}
         {list.data && list.data.length === 0 ? <p className="text-ink-soft" data-testid="certificates-empty">No certificate uploaded yet.</p> : null}
         {list.data && list.data.length > 0 ? (
-          <div className="max-w-full overflow-x-auto rounded-lg border-2 border-line">
+          <div className="max-w-full overflow-x-auto rounded-lg border-2 border-line [contain:inline-size]">
             <table className="w-full min-w-[46rem] border-collapse text-left" data-testid="certificate-table">
               <caption className="sr-only">Certificate versions, newest first</caption>
               <thead className="bg-slate-100 text-sm">

@@ -2,7 +2,8 @@
  * A server-driven table: sorting, filtering and paging happen in SQL on the server, so the table is
  * told `manualSorting`, `manualPagination` and `manualFiltering` and only renders the page it is given.
  * Sortable headers are buttons with `aria-sort` on the header cell. The table scrolls sideways inside
- * its own box on narrow screens, so the page itself never grows wider than the viewport.
+ * its own box on narrow screens, so the page itself never grows wider than the viewport (`contain: inline-size`
+ * keeps the table's width out of the page layout).
  */
 import { flexRender, getCoreRowModel, useReactTable, type ColumnDef, type OnChangeFn, type PaginationState, type SortingState } from '@tanstack/react-table';
 
@@ -74,7 +75,7 @@ export function DataTable<T>({
   });
 
   return (
-    <div className="max-w-full overflow-x-auto rounded-xl border-2 border-line bg-card" data-testid={testId ? `${testId}-scroll` : undefined}>
+    <div className="max-w-full overflow-x-auto rounded-xl border-2 border-line bg-card [contain:inline-size]" data-testid={testId ? `${testId}-scroll` : undefined}>
       <table
         className={`w-full border-collapse text-left transition-opacity ${stale ? 'opacity-60' : ''}`}
         style={{ minWidth }}
@@ -95,7 +96,7 @@ export function DataTable<T>({
                     key={h.id}
                     scope="col"
                     aria-sort={canSort ? (dir === 'asc' ? 'ascending' : dir === 'desc' ? 'descending' : 'none') : undefined}
-                    className={`px-2 py-1 align-bottom font-semibold ${numeric ? 'text-right' : ''}`}
+                    className={`px-0 py-1 align-bottom font-semibold ${numeric ? 'text-right' : ''}`}
                   >
                     {canSort ? (
                       <button
@@ -133,7 +134,7 @@ export function DataTable<T>({
                   return (
                     <td
                       key={cell.id}
-                      className={`px-4 py-2 ${meta?.numeric ? 'num text-right text-lg whitespace-nowrap' : ''} ${meta?.nowrap ? 'whitespace-nowrap' : ''}`}
+                      className={`px-2 py-2 ${meta?.numeric ? 'num text-right text-lg whitespace-nowrap' : 'text-base'} ${meta?.nowrap ? 'whitespace-nowrap' : ''}`}
                     >
                       {flexRender(cell.column.columnDef.cell, cell.getContext())}
                     </td>

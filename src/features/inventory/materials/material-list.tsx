@@ -8,20 +8,38 @@ import { KIND_INFO } from '../kinds.ts';
 
 const col = createColumnHelper<ReferenceMaterial>();
 
+/** "0.9995 ± 0.0004" on the first line and "k = 2" under it, so the column stays narrow. */
+function PurityCell({ purity }: { purity: ReferenceMaterial['purity'] }) {
+  const full = formatPurity(purity);
+  const k = purity.expandedUncertainty && purity.k ? ` (k = ${purity.k})` : '';
+  const head = k ? full.slice(0, full.length - k.length) : full;
+  return (
+    <span data-testid="purity-cell" className="inline-flex flex-col items-end text-base">
+      <span>{head}</span>
+      {k ? (
+        <>
+          {' '}
+          <span className="font-sans text-sm text-ink-soft">{k.trim()}</span>
+        </>
+      ) : null}
+    </span>
+  );
+}
+
 export const materialColumns = [
   col.accessor('name', {
     header: 'Name',
     cell: (c) => <RecordLink to={`${KIND_INFO.materials.pagePath}/${c.row.original.id}`} sub={c.row.original.producer}>{c.getValue()}</RecordLink>,
   }),
-  col.accessor('formula', { header: 'Formula', enableSorting: false, cell: (c) => <span className="num">{c.getValue()}</span> }),
-  col.accessor('lot', { header: 'Lot', meta: { nowrap: true }, cell: (c) => <span className="num">{c.getValue()}</span> }),
+  col.accessor('formula', { header: 'Formula', enableSorting: false, cell: (c) => c.getValue() }),
+  col.accessor('lot', { header: 'Lot', meta: { nowrap: true }, cell: (c) => c.getValue() }),
   col.accessor('grade', { header: 'Grade', cell: (c) => label(GRADE_LABELS, c.getValue()) }),
   col.accessor('purity', {
     id: 'purity',
     header: 'Purity (mass fraction)',
     enableSorting: false,
     meta: { numeric: true },
-    cell: (c) => <span data-testid="purity-cell">{formatPurity(c.getValue())}</span>,
+    cell: (c) => <PurityCell purity={c.getValue()} />,
   }),
   col.accessor('expiresOn', { header: 'Expiry', cell: (c) => <ExpiryCell expiresOn={c.getValue()} /> }),
   col.accessor('status', { header: 'Status', cell: (c) => <StatusBadge status={c.getValue()} /> }),
@@ -35,7 +53,7 @@ export const materialListConfig: ListConfig<'materials'> = {
   extra: { label: 'Grade', options: [{ value: '', label: 'Any grade' }, ...MATERIAL_GRADES.map((g) => ({ value: g, label: label(GRADE_LABELS, g) }))] },
   searchPlaceholder: 'Name, formula, lot, producer, CAS…',
   columns: materialColumns,
-  minWidth: '60rem',
+  minWidth: '54rem',
 };
 
 export function MaterialListPage() {
