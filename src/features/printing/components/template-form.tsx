@@ -56,7 +56,8 @@ export function TemplateForm({ template, onDone }: { template?: LabelTemplate; o
           label="Content"
           registration={form.register('content')}
           error={errors.content?.message}
-          options={LABEL_CONTENTS.map((c) => ({ value: c, label: c === 'full' ? 'Full (name, concentration, dates, hazards, code)' : 'Small (identifier, code, expiry)' }))}
+          options={LABEL_CONTENTS.map((c) => ({ value: c, label: c === 'full' ? 'Full' : 'Small' }))}
+          hint="Small: identifier, 2D code and expiry only"
         />
       </div>
 
