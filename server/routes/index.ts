@@ -7,6 +7,7 @@ import { certificatesRouter } from './certificates.routes.ts';
 import { healthRouter } from './health.routes.ts';
 import { inventoryRouter } from './inventory.routes.ts';
 import { preparationsRouter } from './preparations.routes.ts';
+import { printingRouter } from './printing.routes.ts';
 import { signaturesRouter } from './signatures.routes.ts';
 import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
@@ -23,6 +24,7 @@ export function apiRouter(config: Config): Router {
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());
+  router.use(printingRouter());
   router.use(signaturesRouter(config));
   router.use(outboxRouter());
   router.use(auditRouter());

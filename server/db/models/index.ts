@@ -11,6 +11,7 @@ import { initPreparations } from './preparation.model.ts';
 import { initSetting } from './setting.model.ts';
 import { initUser } from './user.model.ts';
 import { initWeighing } from './weighing.model.ts';
+import { initPrinting } from './printing.model.ts';
 import { initSignatures } from './signature.model.ts';
 import { initMail } from './mail.model.ts';
 
@@ -22,6 +23,7 @@ export { MaterialCertificate } from './certificate.model.ts';
 export { Preparation, PreparationEvent, PreparationSequence, type StoredPlan } from './preparation.model.ts';
 export { Weighing } from './weighing.model.ts';
 export { MakeUp } from './make-up.model.ts';
+export { LabelPrint, LabelTemplate, type LabelSnapshot, type TemplateSnapshot } from './printing.model.ts';
 export { Signature, RecordVersion, SignatureAcknowledgement, ReviewFlag } from './signature.model.ts';
 export { MailQueueItem, FakeMail, type MailStatus } from './mail.model.ts';
 
@@ -34,6 +36,7 @@ export function initModels(sequelize: Sequelize) {
   initPreparations(sequelize);
   initWeighing(sequelize);
   initMakeUp(sequelize);
+  initPrinting(sequelize);
   initSignatures(sequelize);
   initMail(sequelize);
   bound.add(sequelize);

@@ -1,0 +1,442 @@
+/**
+ * The prep sheet: one PDF per preparation and record version (REQUIREMENTS 1B, TR-09, ES-02). Rendered on
+ * the server only (@react-pdf/renderer); the client never imports this module.
+ *
+ * Every page carries the lab header, identifier and version, the status, "Page x of y" and, unless the
+ * record is verified, the unverified mark. Values are the stored decimal strings; rounding happens only
+ * here, for display, and the full-precision values stay in the record.
+ */
+import Decimal from 'decimal.js';
+import { Document, Image, Page, StyleSheet, Text, View } from '@react-pdf/renderer';
+import type { ReactNode } from 'react';
+import type { AuditEntryDto } from '../../shared/schemas/audit.ts';
+import type { BudgetEntry, PreparationDetail, Signature, Weighing } from '../../shared/schemas/preparations.ts';
+import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
+import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
+import { labDateTime, labDay, percent, shortDecimal } from './format.ts';
+
+export interface PrepSheetData {
+  lab: { name: string; timeZone: string };
+  detail: PreparationDetail;
+  /** [] when the record has no signatures (or the signatures feature is not present) */
+  signatures: Signature[];
+  /** the record-level trail (preparation, its weighings and make-ups), oldest first, without print entries */
+  trail: AuditEntryDto[];
+  /** how many times sheets and labels were printed before this one */
+  printCount: number;
+  generatedAt: string;
+  generatedBy: string;
+  /** QR PNG of "<identifier>;v<version>" */
+  qr: Buffer;
+  qrText: string;
+}
+
+export const isVerified = (status: string) => status === 'verified';
+
+const s = StyleSheet.create({
+  page: { fontFamily: TEXT_FONT, fontFeatureSettings: PLAIN_SHAPING, fontSize: 8.5, paddingTop: 78, paddingBottom: 46, paddingHorizontal: 36, color: '#111' },
+  header: { position: 'absolute', top: 20, left: 36, right: 36, borderBottomWidth: 1, borderBottomColor: '#333', paddingBottom: 4 },
+  headerRow: { flexDirection: 'row', justifyContent: 'space-between' },
+  lab: { fontSize: 11, fontWeight: 700 },
+  small: { fontSize: 7.5, color: '#333' },
+  banner: { marginTop: 4, backgroundColor: '#b00020', color: '#fff', fontWeight: 700, fontSize: 9, textAlign: 'center', paddingVertical: 2 },
+  verifiedBanner: { marginTop: 4, borderWidth: 1, borderColor: '#1b5e20', color: '#1b5e20', fontWeight: 700, fontSize: 9, textAlign: 'center', paddingVertical: 1 },
+  footer: { position: 'absolute', bottom: 18, left: 36, right: 36, flexDirection: 'row', justifyContent: 'space-between', fontSize: 7, color: '#333', borderTopWidth: 0.5, borderTopColor: '#999', paddingTop: 3 },
+  h2: { fontSize: 10, fontWeight: 700, marginTop: 9, marginBottom: 3, borderBottomWidth: 0.5, borderBottomColor: '#999', paddingBottom: 1 },
+  row: { flexDirection: 'row' },
+  key: { width: 150, color: '#333' },
+  val: { flex: 1 },
+  bold: { fontWeight: 700 },
+  big: { fontSize: 13, fontWeight: 700 },
+  table: { borderTopWidth: 0.5, borderLeftWidth: 0.5, borderColor: '#999' },
+  tr: { flexDirection: 'row' },
+  th: { borderRightWidth: 0.5, borderBottomWidth: 0.5, borderColor: '#999', padding: 2, fontWeight: 700, backgroundColor: '#eee', fontSize: 7.5 },
+  td: { borderRightWidth: 0.5, borderBottomWidth: 0.5, borderColor: '#999', padding: 2, fontSize: 7.5 },
+  para: { marginBottom: 3, lineHeight: 1.35 },
+});
+
+/** Text that switches to the symbol font when it holds a character Inter's Latin subset lacks. */
+function T({ children, style }: { children: string; style?: object | object[] }) {
+  const extra = { fontFamily: fontFor(children) };
+  return <Text style={[...(Array.isArray(style) ? style : style ? [style] : []), extra]}>{children}</Text>;
+}
+
+function KV({ k, v, bold }: { k: string; v: string; bold?: boolean }) {
+  return (
+    <View style={s.row} wrap={false}>
+      <T style={s.key}>{k}</T>
+      <T style={bold ? [s.val, s.bold] : s.val}>{v}</T>
+    </View>
+  );
+}
+
+function Section({ title, children, breakBefore }: { title: string; children: ReactNode; breakBefore?: boolean }) {
+  return (
+    <View break={breakBefore}>
+      <Text style={s.h2} minPresenceAhead={40}>
+        {title}
+      </Text>
+      {children}
+    </View>
+  );
+}
+
+interface Col {
+  title: string;
+  width: number | string;
+}
+
+function Table({ cols, rows }: { cols: Col[]; rows: string[][] }) {
+  return (
+    <View style={s.table}>
+      <View style={s.tr} fixed={false} wrap={false}>
+        {cols.map((c) => (
+          <T key={c.title} style={[s.th, { width: c.width }]}>
+            {c.title}
+          </T>
+        ))}
+      </View>
+      {rows.map((r, i) => (
+        <View style={s.tr} key={i} wrap={false}>
+          {r.map((cell, j) => (
+            <T key={j} style={[s.td, { width: cols[j]!.width }]}>
+              {cell}
+            </T>
+          ))}
+        </View>
+      ))}
+    </View>
+  );
+}
+
+const dash = (v: string | null | undefined) => (v === null || v === undefined || v === '' ? '—' : v);
+
+/** "0.99990 ± 0.00030 (k = 2)" or the standard uncertainty when no expanded one is given. */
+function purityText(p: PreparationDetail['snapshot']['material']['purity']): string {
+  if (p.expandedUncertainty) return `${p.value} ± ${p.expandedUncertainty} (k = ${p.k ?? '2'}), ${p.basis} basis`;
+  if (p.standardUncertainty) return `${p.value}, u = ${p.standardUncertainty}, ${p.basis} basis`;
+  return `${p.value} (no uncertainty given), ${p.basis} basis`;
+}
+
+/** Calibration status of a balance on the day of use (from the balance snapshot taken at the weighing). */
+export function calibrationStatus(b: Weighing['balance']['snapshot'], onDay: string): string {
+  const status = b.status === 'in_service' ? 'in service' : b.status.replace(/_/g, ' ');
+  if (!b.calibrationDueOn) return `${status}; no calibration due date recorded`;
+  const due = b.calibrationDueOn;
+  const state = onDay > due ? `CALIBRATION OVERDUE (due ${due})` : `calibrated ${dash(b.calibratedOn)}, due ${due}`;
+  return `${status}; ${state}`;
+}
+
+function weighingAsRead(w: Weighing): string {
+  if (w.mode === 'direct' && w.reading) return `${w.reading.value} ${w.reading.unit}`;
+  if (w.before && w.after) return `before ${w.before.value} ${w.before.unit}, after ${w.after.value} ${w.after.unit}`;
+  return '—';
+}
+
+const conditionsText = (c: { temperatureC: string; pressureHPa: string; relativeHumidityPct: string }) =>
+  `${c.temperatureC} °C, ${c.pressureHPa} hPa, ${c.relativeHumidityPct} % RH`;
+
+/** Air density in g/mL shown to 7 decimals (about 4 significant figures). */
+const airDensityText = (g: string) => `${shortDecimal(g, 7)} g/mL`;
+
+function budgetRows(budget: BudgetEntry[]): string[][] {
+  return budget.map((b) => [
+    b.label,
+    `${shortDecimal(b.value, 8)} ${b.unit === '1' ? '' : b.unit}`.trim(),
+    shortDecimal(b.standardUncertainty, 8),
+    shortDecimal(b.sensitivity, 6),
+    shortDecimal(b.contribution, 6),
+    percent(b.share, 1),
+  ]);
+}
+
+const ACTION_TEXT: Record<string, string> = {
+  plan: 'planned',
+  weighing_recorded: 'weighing recorded',
+  weighing_superseded: 'weighing superseded',
+  make_up_recorded: 'make-up recorded',
+  sign: 'signed',
+};
+
+function trailRows(trail: AuditEntryDto[], tz: string): string[][] {
+  return trail.map((e) => [
+    labDateTime(e.occurredAt, tz),
+    dash(e.actorName),
+    `${ACTION_TEXT[e.action] ?? e.action.replace(/_/g, ' ')} (${e.entity} ${dash(e.entityId)})`,
+    dash(e.reason),
+  ]);
+}
+
+function CalculationText({ d }: { d: PreparationDetail }) {
+  const r = d.result;
+  const m = d.snapshot.material;
+  if (!r) {
+    return (
+      <View>
+        <T style={s.para}>
+          {`Planned: to reach ${d.target.value} ${d.target.unit} of ${d.analyteFormula} in ${d.volume.value} ${d.volume.unit}, the true mass needed is ${shortDecimal(d.plan.trueMass.value, 4)} mg ` +
+            `(target × volume ÷ (purity ${m.purity.value} × gravimetric factor ${shortDecimal(d.plan.gravimetricFactor, 6)})). ` +
+            `Divided by the air-buoyancy factor ${shortDecimal(d.plan.buoyancyFactor, 8)} this gives the balance reading to aim for: ${d.plan.targetReading.value} mg ` +
+            `(window ${d.plan.window.low}–${d.plan.window.high} mg, ±${d.plan.window.pct} %).`}
+        </T>
+        <T style={s.para}>No result yet: the concentration is computed when the weighing and the make-up to volume are recorded.</T>
+      </View>
+    );
+  }
+  const active = d.weighings.find((w) => w.id === r.basedOn.weighingId);
+  const net = active?.net.value ?? '';
+  const buoyancy = net && new Decimal(net).gt(0) ? new Decimal(r.trueMass.value).div(net).toSignificantDigits(10).toString() : '—';
+  const c = r.concentration;
+  const lines = [
+    `1. Balance reading (net, as read): m_read = ${dash(net)} mg (weighing #${r.basedOn.weighingId}).`,
+    `2. Air-buoyancy correction: m_true = m_read × B, with B = (1 − ρ_air/ρ_weights) ÷ (1 − ρ_air/ρ_material) = ${buoyancy}, ` +
+      `ρ_air = ${active ? airDensityText(active.airDensity) : '—'} (CIPM-2007 from the weighing's room conditions), ρ_weights = ${dash(active?.balance.snapshot.weightDensityGPerMl)} g/mL, ρ_material = ${dash(m.densityGPerMl)} g/mL: ` +
+      `m_true = ${shortDecimal(r.trueMass.value, 4)} mg.`,
+    `3. Analyte mass: m_true × purity ${m.purity.value} × gravimetric factor ${shortDecimal(d.plan.gravimetricFactor, 8)} (${d.analyteFormula} in ${m.formula}, from atomic weights).`,
+    `4. Divided by the volume V = ${r.volume.value} mL (flask ${d.makeUp?.flask.identifier ?? '—'})` +
+      (r.temperatureCorrection ? `, corrected to 20 °C with the factor ${shortDecimal(r.temperatureCorrection.factor, 8)} for ${r.temperatureCorrection.temperatureC} °C` : '') +
+      `: c = ${shortDecimal(c.value, 6)} ${c.unit}.`,
+    `5. Combined standard uncertainty u(c) = ${shortDecimal(c.standardUncertainty, 6)} ${c.unit} (GUM, budget below); expanded U = k × u = ${shortDecimal(c.expandedUncertainty, 6)} ${c.unit} with k = ${c.k}.`,
+    `Reported: ${c.display} (rounded for display; ${c.significantFigures.significantFigures} significant figures, limited by ${c.significantFigures.limitedBy}). Formula version ${r.calcVersion}, computed ${r.computedAt}.`,
+  ];
+  return (
+    <View>
+      {lines.map((l, i) => (
+        <T key={i} style={s.para}>
+          {l}
+        </T>
+      ))}
+    </View>
+  );
+}
+
+function inputRows(d: PreparationDetail): string[][] {
+  const m = d.snapshot.material;
+  const b = d.snapshot.balance;
+  const f = d.makeUp?.flask.snapshot ?? d.snapshot.flask;
+  const rows: string[][] = [
+    ['Target concentration', `${d.target.value} ${d.target.unit}`, 'entered by the planner'],
+    ['Analyte', d.analyteFormula, `chosen from the analytes of ${m.name}`],
+    ['Purity (mass fraction)', purityText(m.purity), `certificate ${dash(m.certificateNumber)} (${m.producer}, lot ${m.lot})`],
+    ['Material density', m.densityGPerMl ? `${m.densityGPerMl} g/mL` : '—', 'reference material record'],
+    ['Density of the balance weights', `${b.weightDensityGPerMl} g/mL`, `balance ${b.identifier} record`],
+    ['Balance readability', `${b.readabilityMg} mg`, `balance ${b.identifier} record`],
+    ['Room conditions at planning', conditionsText(d.conditionsUsed), d.conditionsUsed.source === 'measured' ? `measured ${d.conditionsUsed.measuredAt}` : 'lab default conditions (settings)'],
+    ['Air density at planning', airDensityText(d.plan.airDensity), 'CIPM-2007 equation from the conditions above'],
+    ['Volume', `${d.volume.value} ${d.volume.unit}`, f ? `flask ${f.identifier}, class ${f.class}, tolerance ±${dash(f.toleranceMl)} mL` : 'entered by the planner'],
+    ['Gravimetric factor', shortDecimal(d.plan.gravimetricFactor, 10), 'molar masses from standard atomic weights (IUPAC)'],
+  ];
+  if (d.makeUp) rows.push(['Solution temperature', `${d.makeUp.solutionTemperatureC} °C`, `entered at make-up by ${d.makeUp.recordedBy.fullName}`]);
+  return rows;
+}
+
+function SignatureBlock({ sigs, tz }: { sigs: Signature[]; tz: string }) {
+  if (!sigs.length) return <Text style={s.para}>No signatures yet.</Text>;
+  return (
+    <Table
+      cols={[
+        { title: 'Meaning', width: '34%' },
+        { title: 'Name', width: '20%' },
+        { title: 'Date and time', width: '22%' },
+        { title: 'Version / validity', width: '24%' },
+      ]}
+      rows={sigs.map((g) => [
+        g.meaningText + (g.reason ? ` — reason: ${g.reason}` : ''),
+        g.signer.fullName,
+        labDateTime(g.signedAt, tz),
+        g.valid ? `v${g.recordVersion}, valid` : `superseded: applied to v${g.recordVersion}`,
+      ])}
+    />
+  );
+}
+
+export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
+  const d = data.detail;
+  const tz = data.lab.timeZone;
+  const verified = isVerified(d.status);
+  const m = d.snapshot.material;
+  const activeWeighings = d.weighings;
+  const title = `${d.identifier} v${d.version}`;
+  return (
+    <Document title={`Prep sheet ${title}`} author={data.lab.name} creator="Tarebook" producer="Tarebook" creationDate={new Date(data.generatedAt)}>
+      <Page size="A4" style={s.page}>
+        <View style={s.header} fixed>
+          <View style={s.headerRow}>
+            <Text style={s.lab}>{data.lab.name}</Text>
+            <Text style={s.bold}>{`Preparation record ${title}`}</Text>
+          </View>
+          <View style={s.headerRow}>
+            <Text style={s.small}>Prep sheet — standard solution preparation</Text>
+            <Text style={s.small}>{`Status: ${d.status}`}</Text>
+          </View>
+          {verified ? <Text style={s.verifiedBanner}>VERIFIED</Text> : <Text style={s.banner}>{UNVERIFIED_MARK}</Text>}
+        </View>
+
+        <View style={s.footer} fixed>
+          <Text>{`${title} · printed ${labDateTime(data.generatedAt, tz)} by ${data.generatedBy}`}</Text>
+          <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
+        </View>
+
+        <View style={[s.row, { justifyContent: 'space-between' }]}>
+          <View style={{ flex: 1, paddingRight: 10 }}>
+            <T style={s.big}>{`${d.materialName} — ${d.analyteFormula}`}</T>
+            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
+            {d.result ? (
+              <T style={s.small}>{`c = ${shortDecimal(d.result.concentration.value, 6)} ${d.result.concentration.unit}; expanded uncertainty U = ${shortDecimal(d.result.concentration.expandedUncertainty, 4)} ${d.result.concentration.unit} (k = ${d.result.concentration.k}, about 95 % coverage)`}</T>
+            ) : null}
+            <View style={{ marginTop: 6 }}>
+              <KV k="Identifier / version" v={title} bold />
+              <KV k="Status" v={`${d.status} (stage: ${d.stage.replace('_', ' ')})`} />
+              <KV k="Planned by" v={`${d.createdBy.fullName} (${d.createdBy.initials}), ${labDateTime(d.createdAt, tz)}`} />
+              <KV k="Volume" v={`${d.volume.value} ${d.volume.unit}`} />
+              {d.amendedFromVersion ? <KV k="Amended" v={`from version ${d.amendedFromVersion}; earlier signatures no longer apply`} /> : null}
+              {d.reviewFlag ? <KV k="Review flag" v={`${d.reviewFlag.reason} (${labDateTime(d.reviewFlag.flaggedAt, tz)})`} /> : null}
+            </View>
+          </View>
+          <View style={{ width: 78, alignItems: 'center' }}>
+            <Image src={{ data: data.qr, format: 'png' }} style={{ width: 70, height: 70 }} />
+            <Text style={[s.small, { marginTop: 2 }]}>{data.qrText}</Text>
+          </View>
+        </View>
+
+        <Section title="Reference material">
+          <KV k="Name / formula" v={`${m.name}, ${m.formula}${m.casNumber ? ` (CAS ${m.casNumber})` : ''}`} />
+          <KV k="Grade / producer" v={`${m.grade}, ${m.producer}${m.catalogueNumber ? `, cat. ${m.catalogueNumber}` : ''}`} />
+          <KV k="Lot / certificate" v={`${m.lot} / ${dash(m.certificateNumber)}`} />
+          <KV k="Purity" v={purityText(m.purity)} />
+          <KV k="Expiry of the material" v={dash(m.expiresOn)} />
+          <KV k="Lot status at planning" v={m.status} />
+        </Section>
+
+        <Section title="Inputs and their sources">
+          <Table
+            cols={[
+              { title: 'Input', width: '26%' },
+              { title: 'Value', width: '34%' },
+              { title: 'Source', width: '40%' },
+            ]}
+            rows={inputRows(d)}
+          />
+        </Section>
+
+        <Section title="Weighings (as read; superseded entries stay listed)">
+          {activeWeighings.length ? (
+            <Table
+              cols={[
+                { title: '#', width: '5%' },
+                { title: 'As read', width: '17%' },
+                { title: 'Net', width: '9%' },
+                { title: 'Balance and calibration at the time', width: '22%' },
+                { title: 'Room conditions and air density', width: '20%' },
+                { title: 'Recorded', width: '14%' },
+                { title: 'Notes', width: '13%' },
+              ]}
+              rows={activeWeighings.map((w) => {
+                const notes = [
+                  w.inWindow ? 'in window' : `OUT OF WINDOW${w.outOfWindowReason ? `: ${w.outOfWindowReason}` : ''}`,
+                  w.supersedesId ? `corrects #${w.supersedesId}: ${dash(w.correctionReason)}` : '',
+                  w.supersededById ? `SUPERSEDED by #${w.supersededById}` : '',
+                ].filter(Boolean);
+                return [
+                  String(w.id),
+                  `${w.mode === 'direct' ? 'direct' : 'by difference'}: ${weighingAsRead(w)}`,
+                  `${w.net.value} mg`,
+                  `${w.balance.identifier}: ${calibrationStatus(w.balance.snapshot, labDay(w.recordedAt, tz))}`,
+                  `${conditionsText(w.conditions)} (${w.conditions.source === 'measured' ? 'measured' : 'lab default'}); ρ_air ${airDensityText(w.airDensity)}`,
+                  `${w.recordedBy.fullName}, ${labDateTime(w.recordedAt, tz)}`,
+                  notes.join('; '),
+                ];
+              })}
+            />
+          ) : (
+            <Text style={s.para}>No weighing recorded yet. Target reading {d.plan.targetReading.value} mg (window {d.plan.window.low}–{d.plan.window.high} mg).</Text>
+          )}
+        </Section>
+
+        <Section title="Flask and solvent">
+          {d.makeUp ? (
+            <View>
+              <KV
+                k="Flask"
+                v={`${d.makeUp.flask.identifier}: ${d.makeUp.flask.snapshot.nominalVolumeMl} mL, class ${d.makeUp.flask.snapshot.class}, tolerance ±${dash(d.makeUp.flask.snapshot.toleranceMl)} mL${d.makeUp.flask.substituted ? ' (substituted for the planned flask)' : ''}`}
+              />
+              <KV k="Solvent" v={`${d.makeUp.solvent.name}${d.makeUp.solvent.snapshot.grade ? `, ${d.makeUp.solvent.snapshot.grade}` : ''}, lot ${d.makeUp.solvent.lot}`} />
+              <KV k="Solution temperature" v={`${d.makeUp.solutionTemperatureC} °C; correction to 20 °C ${d.makeUp.applyTemperatureCorrection ? 'applied' : 'not applied (temperature counted as an uncertainty)'}`} />
+              <KV k="Made up by" v={`${d.makeUp.recordedBy.fullName}, ${labDateTime(d.makeUp.recordedAt, tz)}`} />
+              {d.makeUp.correctionReason ? <KV k="Reason for a new make-up" v={d.makeUp.correctionReason} /> : null}
+              {d.makeUpHistory.length ? <KV k="Earlier make-ups" v={d.makeUpHistory.map((h) => `#${h.id} ${h.flask.identifier} ${labDateTime(h.recordedAt, tz)}`).join('; ')} /> : null}
+            </View>
+          ) : (
+            <Text style={s.para}>Not made up to volume yet{d.snapshot.flask ? ` (planned flask ${d.snapshot.flask.identifier})` : ''}.</Text>
+          )}
+        </Section>
+
+        <Section title="Calculation">
+          <CalculationText d={d} />
+        </Section>
+
+        <Section title="Uncertainty budget (GUM)">
+          {d.result ? (
+            <View>
+              <Table
+                cols={[
+                  { title: 'Input', width: '30%' },
+                  { title: 'Value', width: '17%' },
+                  { title: 'Standard uncertainty', width: '15%' },
+                  { title: 'Sensitivity', width: '14%' },
+                  { title: 'Contribution', width: '14%' },
+                  { title: 'Share', width: '10%' },
+                ]}
+                rows={budgetRows(d.result.budget)}
+              />
+              <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(d.result.concentration.standardUncertainty, 6)} ${d.result.concentration.unit}; U = ${shortDecimal(d.result.concentration.expandedUncertainty, 6)} ${d.result.concentration.unit} (k = ${d.result.concentration.k}).`}</T>
+            </View>
+          ) : (
+            <T style={s.para}>{`Expected at planning: ${d.plan.expectedUncertainty.display}. The budget is computed with the result.`}</T>
+          )}
+        </Section>
+
+        <Section title="Expiry and storage">
+          <KV k="Expires on" v={d.expiry.expiresOn} bold />
+          <KV k="Basis" v={d.expiry.reason} />
+          <KV k="Storage" v={dash(m.storage)} />
+        </Section>
+
+        <Section title="Hazards">
+          <KV k="Pictograms" v={d.hazards.pictograms.length ? d.hazards.pictograms.join(', ') : 'none recorded for the material'} />
+          {d.hazards.statements.length ? <KV k="Hazard statements" v={d.hazards.statements.join(', ')} /> : null}
+          {d.hazards.cautions.map((c, i) => (
+            <KV key={i} k={i === 0 ? 'Cautions' : ''} v={c} />
+          ))}
+        </Section>
+
+        {d.gates.length || d.notes ? (
+          <Section title="Planning warnings and notes">
+            {d.gates.map((g, i) => (
+              <KV key={i} k={`${g.severity}: ${g.code}`} v={g.message} />
+            ))}
+            {d.notes ? <KV k="Notes" v={d.notes} /> : null}
+          </Section>
+        ) : null}
+
+        <Section title="Signatures">
+          <SignatureBlock sigs={data.signatures} tz={tz} />
+        </Section>
+
+        <Section title="Audit summary">
+          <T style={s.para}>{`${data.trail.length} audit entries for this record and its weighings and make-ups; printed ${data.printCount} time(s) before this copy. Times in ${tz}.`}</T>
+          <Table
+            cols={[
+              { title: 'When', width: '27%' },
+              { title: 'Who', width: '20%' },
+              { title: 'What', width: '28%' },
+              { title: 'Reason', width: '25%' },
+            ]}
+            rows={trailRows(data.trail.slice(-20), tz)}
+          />
+          {data.trail.length > 20 ? <Text style={s.small}>{`Showing the latest 20 of ${data.trail.length} entries; the full trail is in Tarebook.`}</Text> : null}
+        </Section>
+      </Page>
+    </Document>
+  );
+}
