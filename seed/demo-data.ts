@@ -76,7 +76,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.9995',
     purityExpandedUncertainty: '0.0004',
     purityK: '2',
-    purityStandardUncertainty: '0.0002',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'dried',
     densityValue: '4.53',
     receivedOn: '2026-02-10',
@@ -100,7 +100,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.99970',
     purityExpandedUncertainty: '0.00020',
     purityK: '2',
-    purityStandardUncertainty: '0.00010',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'dried',
     densityValue: '2.165',
     receivedOn: '2026-04-14',
@@ -124,7 +124,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.99990',
     purityExpandedUncertainty: '0.00030',
     purityK: '2',
-    purityStandardUncertainty: '0.00015',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'dried',
     densityValue: '1.636',
     receivedOn: '2026-01-20',
@@ -148,7 +148,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.9990',
     purityExpandedUncertainty: '0.0010',
     purityK: '2',
-    purityStandardUncertainty: '0.0005',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'dried',
     densityValue: '2.26',
     receivedOn: '2025-11-03',
@@ -172,7 +172,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.99950',
     purityExpandedUncertainty: '0.00040',
     purityK: '2',
-    purityStandardUncertainty: '0.00020',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'dried',
     densityValue: '2.34',
     receivedOn: '2026-03-09',
@@ -196,7 +196,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.9990',
     purityExpandedUncertainty: '0.0008',
     purityK: '2',
-    purityStandardUncertainty: '0.0004',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'as-is', // a hydrate: never dried
     densityValue: '2.286',
     receivedOn: '2025-09-22',
@@ -220,7 +220,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.99990',
     purityExpandedUncertainty: '0.00006',
     purityK: '2',
-    purityStandardUncertainty: '0.00003',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'as-is',
     densityValue: '8.65',
     receivedOn: '2025-06-11',
@@ -245,7 +245,7 @@ export const demoMaterials: DemoMaterial[] = [
     purityValue: '0.9985',
     purityExpandedUncertainty: '0.0010',
     purityK: '2',
-    purityStandardUncertainty: '0.0005',
+    purityStandardUncertainty: null, // the certificate states U with k; u = U/k
     purityBasis: 'dried',
     densityValue: '2.558',
     receivedOn: '2023-05-15',
@@ -311,7 +311,7 @@ export const demoBalances: DemoBalance[] = [
     repeatabilitySdMg: '0.08',
     minWeightMg: '160', // 2000 · max(0.08, 0.041) mg
     minWeightDeterminedOn: '2026-06-15',
-    minWeightSafetyFactor: '2',
+    minWeightSafetyFactor: '1', // lab rule: the USP <41> minimum weight itself; with SF 2 (USP <1251>) it doubles
     calibratedOn: '2026-06-15',
     calibrationDueOn: '2027-06-15',
     calibrationUncertaintyMg: '0.15',
@@ -328,7 +328,7 @@ export const demoBalances: DemoBalance[] = [
     repeatabilitySdMg: '0.006',
     minWeightMg: '12', // 2000 · max(0.006, 0.0041) mg
     minWeightDeterminedOn: '2026-06-16',
-    minWeightSafetyFactor: '2',
+    minWeightSafetyFactor: '1', // lab rule: the USP <41> minimum weight itself; with SF 2 (USP <1251>) it doubles
     calibratedOn: '2026-06-16',
     calibrationDueOn: '2027-06-16',
     calibrationUncertaintyMg: '0.020',
@@ -346,7 +346,7 @@ export const demoBalances: DemoBalance[] = [
     repeatabilitySdMg: '0.09',
     minWeightMg: '180', // 2000 · max(0.09, 0.041) mg
     minWeightDeterminedOn: '2025-05-20',
-    minWeightSafetyFactor: '2',
+    minWeightSafetyFactor: '1', // lab rule: the USP <41> minimum weight itself; with SF 2 (USP <1251>) it doubles
     calibratedOn: '2025-05-20',
     calibrationDueOn: '2026-05-20',
     calibrationUncertaintyMg: '0.16',
@@ -364,7 +364,7 @@ export const demoBalances: DemoBalance[] = [
     repeatabilitySdMg: '8',
     minWeightMg: '16000', // 2000 · max(8, 4.1) mg = 16 g
     minWeightDeterminedOn: '2026-01-12',
-    minWeightSafetyFactor: '2',
+    minWeightSafetyFactor: '1', // lab rule: the USP <41> minimum weight itself; with SF 2 (USP <1251>) it doubles
     calibratedOn: '2026-01-12',
     calibrationDueOn: '2027-01-12',
     calibrationUncertaintyMg: '20',

@@ -227,7 +227,10 @@ export const casNumberSchema = z
 export const GHS_HAZARD_RE = /^(EU)?H\d{3}[A-Za-z]{0,2}(\+(EU)?H\d{3}[A-Za-z]{0,2})*$/;
 export const GHS_PICTOGRAM_RE = /^GHS0[1-9]$/;
 const hazardList = z
-  .array(z.string({ error: 'Enter a hazard statement code' }).trim().toUpperCase().regex(GHS_HAZARD_RE, 'Use a hazard statement code such as H302 or H319'), {
+  .array(z.string({ error: 'Enter a hazard statement code' }).trim()
+      // Upper-case only the "H"/"EUH" prefix: the letters after the number carry meaning (H360Df ≠ H360DF).
+      .overwrite((s) => s.replace(/^(eu)?h/i, (m) => m.toUpperCase()))
+      .regex(GHS_HAZARD_RE, 'Use a hazard statement code such as H302 or H319'), {
     error: 'Give a list of hazard statement codes',
   })
   .max(40, 'At most 40 hazard statements');

@@ -66,13 +66,14 @@ describe('reference materials: create', () => {
     expect(res.body.error.fields[field], JSON.stringify(res.body)).toEqual(expect.any(String));
   });
 
-  it('when a CRM has a standard uncertainty only, and GHS codes are valid, then it is accepted (codes upper-cased)', async () => {
+  it('when a CRM has a standard uncertainty only, and GHS codes are valid, then it is accepted (the H prefix upper-cased, the GHS suffix letters kept)', async () => {
     const res = await post(
       '/api/materials',
-      validMaterial({ lot: 'C-2', purity: { value: '0.9990', standardUncertainty: '0.0005', basis: 'as-is' }, ghsHazardStatements: ['h302', 'H319'], ghsPictograms: ['GHS07'] }),
+      validMaterial({ lot: 'C-2', purity: { value: '0.9990', standardUncertainty: '0.0005', basis: 'as-is' }, ghsHazardStatements: ['h302', 'H319', 'H360Df'], ghsPictograms: ['GHS07'] }),
     );
     expect(res.status, JSON.stringify(res.body)).toBe(201);
-    expect(res.body.ghsHazardStatements).toEqual(['H302', 'H319']);
+    // GHS (UN Rev. 10) distinguishes H360Df (may damage the unborn child, suspected of damaging fertility) from H360FD.
+    expect(res.body.ghsHazardStatements).toEqual(['H302', 'H319', 'H360Df']);
   });
 
   it('when the same lot of the same material from the same producer is registered again, then 409 with fields.lot', async () => {

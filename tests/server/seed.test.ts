@@ -40,12 +40,13 @@ describe('seedDemoLab', () => {
     expect(result).toEqual({ seeded: false, reason: 'The database already has users' });
   });
 
-  it('then each balance minimum weight follows USP <41>: m_min = 2000 · max(s, 0.41 · d)', () => {
-    // Source: USP <41> as summarised in REQUIREMENTS EQ-04 [V there].
+  it('then each balance minimum weight follows USP <41>: m_min = SF · 2000 · max(s, 0.41 · d)', () => {
+    // Source: USP <41> as summarised in REQUIREMENTS EQ-04 [V there]; the stored value includes the lab's
+    // safety factor SF (USP <1251>), as the server computes it (shared/calc/min-weight.ts).
     for (const b of demoBalances) {
       const s = new Decimal(b.repeatabilitySdMg);
       const d041 = new Decimal(b.readabilityMg).times('0.41');
-      const mMin = Decimal.max(s, d041).times(2000);
+      const mMin = Decimal.max(s, d041).times(2000).times(b.minWeightSafetyFactor);
       expect(mMin.eq(b.minWeightMg), `${b.identifier}: ${mMin.toString()} mg`).toBe(true);
     }
   });
