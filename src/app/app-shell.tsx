@@ -21,6 +21,7 @@ const NAV: NavItem[] = [
   { to: '/inventory/solvents', label: 'Solvents', group: 'Inventory', testId: 'nav-inventory-solvents' },
   { to: '/audit', label: 'Audit trail', roles: ['qa', 'admin'], testId: 'nav-audit' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
+  { to: '/admin/outbox', label: 'Outbox', roles: ['admin'], testId: 'nav-outbox' },
   { to: '/admin/label-templates', label: 'Label templates', roles: ['admin'], testId: 'nav-label-templates' },
 ];
 

@@ -38,6 +38,10 @@ export const router = createBrowserRouter([
               },
               { path: ':identifier', lazy: async () => ({ Component: (await import('../features/preparations/detail-page.tsx')).DetailPage }) },
               {
+                element: <RequireRole roles={['chemist']} />,
+                children: [{ path: ':identifier/verify', lazy: async () => ({ Component: (await import('../features/signatures/verify-page.tsx')).VerifyPage }) }],
+              },
+              {
                 element: <RequireRole roles={['chemist', 'technician']} />,
                 children: [{ path: ':identifier/bench', lazy: async () => ({ Component: (await import('../features/preparations/bench-page.tsx')).BenchPage }) }],
               },
@@ -61,6 +65,7 @@ export const router = createBrowserRouter([
                 path: 'users',
                 lazy: async () => ({ Component: (await import('../features/users/users-page.tsx')).UsersPage }),
               },
+              { path: 'outbox', lazy: async () => ({ Component: (await import('../features/outbox/outbox-page.tsx')).OutboxPage }) },
               {
                 path: 'label-templates',
                 lazy: async () => ({ Component: (await import('../features/printing/label-templates-page.tsx')).LabelTemplatesPage }),

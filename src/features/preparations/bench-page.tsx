@@ -13,6 +13,7 @@ import { WeighingForm } from './components/weighing-form.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, formatLabTime } from './format.ts';
 import type { Weighing } from './types.ts';
+import { AmendedMarker, ReviewFlagBanner, StatusBadge } from '../signatures/components/status-badge.tsx';
 
 /** The bench view: target and window huge, then record the weighing and the make-up. Glove-sized targets. */
 export function BenchPage() {
@@ -47,6 +48,8 @@ export function BenchPage() {
               {d.identifier}
             </span>
             <StageBadge stage={d.stage} testId="bench-stage" />
+            <StatusBadge status={d.status} testId="bench-status" />
+            <AmendedMarker d={d} testId="bench-amended" />
           </span>
         }
       >
@@ -96,6 +99,8 @@ export function BenchPage() {
           </div>
         </dl>
       </section>
+
+      <ReviewFlagBanner d={d} timeZone={tz} />
 
       {saved ? (
         <Banner tone="ok" title="Saved" testId="bench-saved">

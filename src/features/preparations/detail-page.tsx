@@ -13,6 +13,9 @@ import { StageBadge } from './components/stage-badge.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
+import { SignActions } from '../signatures/components/sign-actions.tsx';
+import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
+import { AmendedMarker, ReviewFlagBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
 
 function Facts({ rows, testId }: { rows: [string, ReactNode][]; testId?: string }) {
   return (
@@ -97,7 +100,11 @@ function Snapshot({ d }: { d: PreparationDetail }) {
   );
 }
 
-export function DetailPage() {
+/**
+ * The whole record. With `verification`, the same page is the verifier's workspace: no bench or signing
+ * buttons at the top, and the given checklist panel after the audit trail.
+ */
+export function DetailPage({ verification }: { verification?: (d: PreparationDetail) => ReactNode } = {}) {
   const { identifier = '' } = useParams();
   const auth = useAuth();
   const detail = useQuery(preparationQueries.detail(identifier));
@@ -130,12 +137,13 @@ export function DetailPage() {
               {d.identifier}
             </span>
             <StageBadge stage={d.stage} testId="detail-stage" />
-            <span className="rounded-full border-2 border-slate-700 px-3 py-0.5 text-sm font-semibold" data-testid="detail-status">
-              {statusLabel(d.status)}
-            </span>
+            <StatusBadge status={d.status} testId="detail-status" />
+            <VersionTag version={d.version} />
+            <AmendedMarker d={d} />
           </span>
         }
       >
+        <StatusExplainer d={d} />
         <p>
           {d.materialName} as <span className="num">{d.analyteFormula}</span> · planned by {d.createdBy.fullName}, {formatLabTime(d.createdAt, tz)}
         </p>
@@ -145,7 +153,11 @@ export function DetailPage() {
         </p>
       </PageHeader>
 
-      {canBench ? (
+      <ReviewFlagBanner d={d} timeZone={tz} />
+
+      {!verification ? <SignActions d={d} /> : null}
+
+      {canBench && !verification ? (
         <div>
           <Link
             to={`/preparations/${encodeURIComponent(d.identifier)}/bench`}
@@ -185,6 +197,10 @@ export function DetailPage() {
           <p className="text-ink-soft">The concentration is recomputed from the weighing and the make-up once they are recorded.</p>
         </Panel>
       )}
+
+      <Panel title="Signatures" id="detail-signatures">
+        <SignaturesPanel signatures={d.signatures} timeZone={tz} />
+      </Panel>
 
       {d.result && d.result.budget.length > 0 ? (
         <Panel title="Uncertainty budget" id="detail-budget">
@@ -268,6 +284,12 @@ export function DetailPage() {
       {RecordTrail ? (
         <Panel title="Audit trail" id="detail-audit">
           <RecordTrail entity="preparation" entityId={d.id} />
+        </Panel>
+      ) : null}
+
+      {verification ? (
+        <Panel title="Verification" id="detail-verification">
+          {verification(d)}
         </Panel>
       ) : null}
     </div>

@@ -10,6 +10,7 @@ import { preparationQueries } from './api/preparation-queries.ts';
 import { StageBadge } from './components/stage-badge.tsx';
 import { formatLabTime, isPreparationIdentifier, qty, statusLabel } from './format.ts';
 import { PREPARATION_STATUSES } from '../../../shared/schemas/preparations.ts';
+import { StatusBadge } from '../signatures/components/status-badge.tsx';
 
 type Tab = 'mine' | 'today' | 'all';
 const TABS: { value: Tab; label: string }[] = [
@@ -163,8 +164,9 @@ export function PreparationsPage() {
                   <span className="num text-xl font-bold" data-testid="prep-row-id">
                     {p.identifier}
                   </span>
-                  <span className="mt-1">
+                  <span className="mt-1 flex flex-wrap gap-1.5">
                     <StageBadge stage={p.stage} />
+                    <StatusBadge status={p.status} testId="prep-row-status" />
                   </span>
                 </span>
                 <span className="min-w-0">

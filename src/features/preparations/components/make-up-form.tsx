@@ -11,6 +11,8 @@ import { DECIMAL_TEXT } from '../../../../shared/schemas/decimal-text.ts';
 import { pickerQueries } from '../api/preparation-queries.ts';
 import { useRecordMakeUp } from '../api/preparation-mutations.ts';
 import type { PreparationDetail } from '../types.ts';
+import { ApiError } from '../../../lib/api-client.ts';
+import { useChangeSignature } from '../../signatures/components/change-signature.tsx';
 
 const makeUpFormSchema = (needsReason: boolean) =>
   z.object({
@@ -29,7 +31,9 @@ const FIELDS = ['flaskIdentifier', 'solventId', 'solventLot', 'solutionTemperatu
 export function MakeUpForm({ detail, onDone }: { detail: PreparationDetail; onDone: (d: PreparationDetail) => void }) {
   const solvents = useQuery(pickerQueries.solvents());
   const record = useRecordMakeUp(detail.identifier);
-  const needsReason = !!detail.makeUp;
+  // A change to a signed record needs the changer's password as well (an "amended" signature).
+  const change = useChangeSignature(detail);
+  const needsReason = !!detail.makeUp || change.required;
   const form = useForm<MakeUpFormIn>({
     resolver: zodResolver(makeUpFormSchema(needsReason)),
     defaultValues: { flaskIdentifier: '', solventId: '', solventLot: '', solutionTemperatureC: '', applyTemperatureCorrection: false, correctionReason: '' },
@@ -50,6 +54,7 @@ export function MakeUpForm({ detail, onDone }: { detail: PreparationDetail; onDo
 
   const onSubmit = handleSubmit((v) => {
     setBanner(null);
+    if (!change.validate()) return;
     record.mutate(
       {
         flaskIdentifier: v.flaskIdentifier.trim(),
@@ -58,13 +63,18 @@ export function MakeUpForm({ detail, onDone }: { detail: PreparationDetail; onDo
         solutionTemperatureC: v.solutionTemperatureC.trim(),
         applyTemperatureCorrection: v.applyTemperatureCorrection,
         ...(needsReason ? { correctionReason: v.correctionReason.trim() } : {}),
+        ...change.payload(),
       },
       {
         onSuccess: (next) => {
           form.reset();
+          change.reset();
           onDone(next);
         },
-        onError: (e) => setBanner(applyApiFieldErrors(e, setError, FIELDS)),
+        onError: (e) => {
+          if (change.applyServerError(e) && e instanceof ApiError && Object.keys(e.fields).every((k) => k === 'password' || k.startsWith('signature.'))) return;
+          setBanner(applyApiFieldErrors(e, setError, FIELDS));
+        },
       },
     );
   });
@@ -96,6 +106,7 @@ export function MakeUpForm({ detail, onDone }: { detail: PreparationDetail; onDo
       {needsReason ? (
         <TextField label="Reason for making up again (required)" registration={register('correctionReason')} error={err('correctionReason')} />
       ) : null}
+      {change.fields}
       {banner ? <Banner title="The make-up was not saved">{banner}</Banner> : null}
       <Button type="submit" data-testid="save-make-up" busy={record.isPending} className="min-h-16 text-xl">
         {needsReason ? 'Save the new make-up' : 'Save make-up'}

@@ -14,6 +14,7 @@ import { balanceDecimals } from '../format.ts';
 import { conditionsFormSchema, toConditionsInput } from '../plan-form-schema.ts';
 import type { PreparationDetail, Weighing, WeighingInput } from '../types.ts';
 import { ConditionsFields, isoToLocalInput, nowLocalInput } from './conditions-fields.tsx';
+import { useChangeSignature } from '../../signatures/components/change-signature.tsx';
 
 const readingText = z
   .string()
@@ -86,6 +87,9 @@ export function WeighingForm({
   const [oow, setOow] = useState<{ message: string; input: WeighingInput } | null>(null);
   const [reason, setReason] = useState('');
   const [reasonError, setReasonError] = useState<string | null>(null);
+  // A change to a signed record needs a reason and the changer's password (an "amended" signature).
+  const change = useChangeSignature(detail);
+  const needsReason = !!correcting || change.required;
 
   useEffect(() => {
     if (correcting) {
@@ -111,6 +115,7 @@ export function WeighingForm({
       onSuccess: (next) => {
         setOow(null);
         setReason('');
+        change.reset();
         reset({ ...initialValues(next), unit: input.unit, mode: input.mode });
         onDone(next);
       },
@@ -124,22 +129,26 @@ export function WeighingForm({
           return;
         }
         setOow(null);
+        if (change.applyServerError(e) && e instanceof ApiError && Object.keys(e.fields).every((k) => k === 'password' || k.startsWith('signature.'))) return;
         setBanner(applyApiFieldErrors(e, setError, FIELDS));
       },
     });
   };
 
   const onSubmit = handleSubmit((v) => {
-    if (correcting && v.correctionReason.trim().length < 3) {
+    if (needsReason && v.correctionReason.trim().length < 3) {
       setError('correctionReason', { type: 'manual', message: 'Give the reason for the correction (at least 3 characters)' });
       return;
     }
+    if (!change.validate()) return;
     const input: WeighingInput = {
       mode: v.mode,
       unit: v.unit,
       conditions: toConditionsInput(v.conditions),
       ...(v.mode === 'direct' ? { reading: v.reading.trim() } : { before: v.before.trim(), after: v.after.trim() }),
       ...(correcting ? { supersedesId: correcting.id, correctionReason: v.correctionReason.trim() } : {}),
+      ...(!correcting && change.required ? { correctionReason: v.correctionReason.trim() } : {}),
+      ...change.payload(),
     };
     send(input);
   });
@@ -196,9 +205,10 @@ export function WeighingForm({
         />
       </div>
 
-      {correcting ? (
+      {needsReason ? (
         <TextField label="Reason for the correction (required)" registration={register('correctionReason')} error={err('correctionReason')} data-testid="correction-reason" />
       ) : null}
+      {change.fields}
 
       {oow ? (
         <div role="alert" data-testid="oow-panel" className="flex flex-col gap-3 rounded-xl border-2 border-l-8 border-caution-700 bg-caution-50 px-4 py-4">

@@ -1,0 +1,93 @@
+import type { PreparationDetail } from '../../../../shared/schemas/preparations.ts';
+import { statusText } from '../format.ts';
+
+/** Tone plus an icon-free word: the status is always written out, never shown by colour alone. */
+const TONES: Record<string, string> = {
+  planned: 'border-slate-700 bg-card text-ink',
+  prepared: 'border-brass-600 bg-brass-100 text-ink',
+  verified: 'border-ok-700 bg-ok-50 text-ok-700',
+  returned: 'border-bad-700 bg-bad-50 text-bad-700',
+  discarded: 'border-ink-soft bg-slate-100 text-ink-soft',
+  expired: 'border-caution-700 bg-caution-50 text-caution-700',
+};
+
+const MARKS: Record<string, string> = {
+  planned: '○',
+  prepared: '◐',
+  verified: '●',
+  returned: '↩',
+  discarded: '✕',
+  expired: '⌛',
+};
+
+export function StatusBadge({ status, testId, withHint = false }: { status: string; testId?: string; withHint?: boolean }) {
+  const t = statusText(status);
+  return (
+    <span
+      data-testid={testId}
+      data-status={status}
+      title={t.hint || undefined}
+      className={`inline-flex items-center gap-1.5 whitespace-nowrap rounded-full border-2 px-3 py-0.5 text-sm font-semibold ${TONES[status] ?? TONES.planned}`}
+    >
+      <span aria-hidden="true">
+        {MARKS[status] ?? '○'}
+      </span>
+      <span>
+        {t.label}
+        {withHint && t.hint ? <span className="font-normal"> · {t.hint}</span> : null}
+      </span>
+    </span>
+  );
+}
+
+/** "Amended from v 1": the record changed after signing; the earlier signatures no longer apply. */
+export function AmendedMarker({ d, testId = 'amended-marker' }: { d: Pick<PreparationDetail, 'amendedFromVersion' | 'version'>; testId?: string }) {
+  if (!d.amendedFromVersion) return null;
+  return (
+    <span
+      data-testid={testId}
+      className="inline-flex items-center whitespace-nowrap rounded-full border-2 border-dashed border-caution-700 bg-caution-50 px-3 py-0.5 text-sm font-semibold text-caution-700"
+    >
+      Amended from v {d.amendedFromVersion} · now v {d.version}
+    </span>
+  );
+}
+
+/** The record version, shown beside the status. */
+export function VersionTag({ version }: { version: number | undefined }) {
+  if (!version) return null;
+  return (
+    <span className="num inline-flex items-center whitespace-nowrap rounded-full border-2 border-line px-3 py-0.5 text-sm font-semibold text-ink-soft" data-testid="record-version">
+      v {version}
+    </span>
+  );
+}
+
+/** Banner for a record made from one that changed after signing (set by the lineage feature). */
+export function ReviewFlagBanner({ d, timeZone }: { d: Pick<PreparationDetail, 'reviewFlag'>; timeZone?: string }) {
+  if (!d.reviewFlag) return null;
+  const when = new Date(d.reviewFlag.flaggedAt);
+  const at = Number.isNaN(when.getTime())
+    ? d.reviewFlag.flaggedAt
+    : new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: timeZone ?? 'UTC', timeZoneName: 'short' }).format(when);
+  return (
+    <div role="alert" data-testid="review-flag" className="rounded-lg border-2 border-l-8 border-caution-700 bg-caution-50 px-4 py-3 text-caution-700">
+      <p className="font-bold">Needs review: a record this one was made from has changed</p>
+      <p className="text-ink">
+        {d.reviewFlag.reason} <span className="text-ink-soft">(flagged {at})</span>
+      </p>
+    </div>
+  );
+}
+
+/** One-line explanation of what the status means for the reader, with the amendment note. */
+export function StatusExplainer({ d }: { d: Pick<PreparationDetail, 'status' | 'amendedFromVersion' | 'version'> }) {
+  const t = statusText(d.status);
+  return (
+    <p data-testid="status-explainer">
+      <span className="font-semibold text-ink">{t.label}</span>
+      {t.hint ? `: ${t.hint}.` : '.'}
+      {d.amendedFromVersion ? ` Changed after signing (v ${d.amendedFromVersion} → v ${d.version}): the earlier signatures no longer apply; it must be signed as prepared and verified again.` : ''}
+    </p>
+  );
+}
