@@ -7,10 +7,15 @@
  *   3. C (TOC) 1000 mg/L (KHP): an out-of-window weighing kept with its reason, then made up.
  *   4. Cu 1000 mg/L (CuSO4·5H2O): weighed by difference, not yet made up.
  *   5. NO3 1000 mg/L (NaNO3): planned only.
+ * Signatures go through the signature service (real passwords, real record hashes): Pb is signed "prepared" by
+ * the first chemist and "verified" by the second; the TOC record is signed "prepared" and awaits verification.
  */
 import { D } from '../shared/calc/index.ts';
 import { Balance, ReferenceMaterial, Solvent, User, VolumetricWare } from '../server/db/models/index.ts';
 import { createPreparation, recordMakeUp, recordWeighing, type Actor } from '../server/services/preparations.service.ts';
+import { sign } from '../server/services/signatures.service.ts';
+import { VERIFICATION_CHECKLIST } from '../shared/schemas/preparations.ts';
+import { DEMO_PASSWORD } from './demo-data.ts';
 
 async function actor(email: string): Promise<Actor> {
   const u = await User.findOne({ where: { email } });
@@ -132,6 +137,13 @@ export async function seedDemoPreparations(): Promise<number> {
     at('2026-11-18T13:42:00Z'),
   );
   await recordMakeUp(toc.identifier, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '21.2', applyTemperatureCorrection: false }, maren, at('2026-11-18T13:58:00Z'));
+
+  // Signatures: Pb prepared by Maren and verified by Idris (who entered none of its data); TOC prepared, awaiting review.
+  const signing = (iso: string) => ({ lockoutThreshold: 5, publicUrl: process.env.PUBLIC_URL ?? `http://localhost:${process.env.PORT || 3000}`, now: new Date(iso) });
+  const checklist = Object.fromEntries(VERIFICATION_CHECKLIST.map((c) => [c.key, true as const]));
+  await sign(pb.identifier, { meaning: 'prepared', password: DEMO_PASSWORD, acknowledgeResponsibility: true }, maren, signing('2026-11-09T09:40:00Z'));
+  await sign(pb.identifier, { meaning: 'verified', password: DEMO_PASSWORD, checklist, acknowledgeResponsibility: true }, idris, signing('2026-11-09T14:05:00Z'));
+  await sign(toc.identifier, { meaning: 'prepared', password: DEMO_PASSWORD }, maren, signing('2026-11-18T14:03:00Z'));
 
   // 4. Cu: weighed by difference from a weighing boat; make-up not yet recorded.
   const t4 = '2026-11-24T08:50:00Z';

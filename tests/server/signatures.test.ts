@@ -451,3 +451,22 @@ describe('record hash and signature integrity (REQUIREMENTS ES-03)', () => {
     expect(text).toContain(d.signatures[0].recordHash);
   });
 });
+
+describe('demo seed (seed/demo-preparations.ts)', () => {
+  it('the Pb record is prepared by the first chemist and verified by the second, the TOC record is prepared, all with intact hashes', async () => {
+    const list = (await send('qa', 'get', '/api/preparations?search=HWL-2026-000&pageSize=100')).body.items as any[];
+    const seeded = list.filter((i) => i.createdAt.startsWith('2026-11')).sort((a, b) => a.id - b.id);
+    const pb = (await send('qa', 'get', `/api/preparations/${seeded[0].identifier}`)).body;
+    expect(pb.status).toBe('verified');
+    expect(pb.signatures.map((s: any) => [s.meaning, s.signer.fullName, s.valid])).toEqual([
+      ['prepared', 'Dr. Maren Tollefsen', true],
+      ['verified', 'Idris Okonkwo-Baptiste', true],
+    ]);
+    const toc = (await send('qa', 'get', `/api/preparations/${seeded[2].identifier}`)).body;
+    expect(toc.status).toBe('prepared');
+    expect(toc.signatures).toEqual([expect.objectContaining({ meaning: 'prepared', valid: true, signedAt: '2026-11-18T14:03:00.000Z' })]);
+    for (const p of [pb, toc]) expect((await verifySignatures(p.id)).every((c) => c.ok)).toBe(true);
+    const forIdris = (await send('chemist2', 'get', `/api/preparations/${toc.identifier}`)).body;
+    expect(forIdris.canSign).toMatchObject({ verify: true, return: true });
+  });
+});
