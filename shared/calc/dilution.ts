@@ -1,0 +1,297 @@
+/**
+ * Dilutions of a parent standard and the proposal of pipette/flask pairs for a calibration series.
+ * Source: METROLOGY §5.5: volumetric c2 = c1·Vp/Vf with u_r(c2)² = u_r(c1)² + u_r(Vp)² + u_r(Vf)²
+ * (no per-item temperature term when the whole dilution is at one temperature; the liquid's expansion
+ * cancels in Vp/Vf); gravimetric w2 = w1·m_aliquot/m_total with buoyancy B = (1 − ρa/ρw)/(1 − ρa/ρ)
+ * for each weighing (NIST SOP 2), and γ = w·ρ_solution. Uncertainty by the GUM law of propagation
+ * (JCGM 100:2008 eq. 10) through propagate(); tolerances → u: triangular a/√6 for glass (QUAM A1),
+ * rectangular a/√3 for piston pipettes (ISO 8655 maximum permissible error, conservative).
+ * Validity: first-order GUM; one temperature for the whole dilution. Units: volumes mL, masses as read
+ * (any one unit), densities g/mL, mass fraction mg/kg, concentrations in the parent's unit.
+ */
+import { D, type Dec, type DecInput, toDec } from './decimal.ts';
+import { CalcError } from './errors.ts';
+import { buoyancyFactor, REFERENCE_WEIGHT_DENSITY } from './buoyancy.ts';
+import { formatResult, type RoundingRule } from './rounding.ts';
+import { propagate, rectangular, triangular, type BudgetRow, type UncertainInput } from './uncertainty.ts';
+
+export interface DilutionBudgetRow {
+  input: string;
+  label: string;
+  value: string;
+  standardUncertainty: string;
+  sensitivity: string;
+  contribution: string;
+  share: string;
+}
+
+export interface DilutionResult {
+  value: string;
+  unit: string;
+  standardUncertainty: string;
+  expandedUncertainty: string;
+  /** u_c / |y| */
+  relative: string;
+  k: string;
+  display: string;
+  budget: DilutionBudgetRow[];
+}
+
+const SIG = 20;
+const s = (x: Dec) => x.toSignificantDigits(SIG).toFixed();
+
+function rowDto(r: BudgetRow): DilutionBudgetRow {
+  return {
+    input: r.input,
+    label: r.label,
+    value: s(r.value),
+    standardUncertainty: s(r.standardUncertainty),
+    sensitivity: s(r.sensitivity),
+    contribution: s(r.contribution),
+    share: s(r.share),
+  };
+}
+
+function positive(x: DecInput, name: string): Dec {
+  const d = toDec(x, name);
+  if (d.lte(0)) throw new CalcError('non_positive', `${name} must be greater than 0 (got ${d.toString()})`, { details: { input: name } });
+  return d;
+}
+
+function finish(value: Dec, uc: Dec, unit: string, budget: BudgetRow[], k: DecInput, rule: RoundingRule): DilutionResult {
+  const kk = toDec(k, 'coverage factor k');
+  const U = uc.mul(kk);
+  return {
+    value: s(value),
+    unit,
+    standardUncertainty: s(uc),
+    expandedUncertainty: s(U),
+    relative: value.isZero() ? '0' : s(uc.div(value.abs())),
+    k: kk.toString(),
+    display: U.gt(0) ? formatResult(value, U, unit, kk, { rule }) : `${value.toString()} ${unit}`,
+    budget: budget.map(rowDto),
+  };
+}
+
+// ------------------------------------------------------------------ volumetric
+
+export interface VolumetricDilutionInput {
+  /** the parent's concentration (any unit; the result has the same unit) and its standard uncertainty */
+  parent: { value: DecInput; unit: string; standardUncertainty: DecInput };
+  /** delivered aliquot, mL, with its standard uncertainty (calibration, and repeatability if known) */
+  aliquot: { volumeMl: DecInput; standardUncertainty: DecInput };
+  /** final (flask) volume, mL, with its standard uncertainty */
+  final: { volumeMl: DecInput; standardUncertainty: DecInput };
+  k?: DecInput;
+  rounding?: RoundingRule;
+}
+
+/** c2 = c1·Vp/Vf (METROLOGY §5.5); the parent's uncertainty enters the budget as an input. */
+export function volumetricDilution(i: VolumetricDilutionInput): DilutionResult {
+  positive(i.parent.value, 'Parent concentration');
+  const vp = positive(i.aliquot.volumeMl, 'Aliquot volume');
+  const vf = positive(i.final.volumeMl, 'Final volume');
+  if (vp.gt(vf)) {
+    throw new CalcError('calc_out_of_range', `The aliquot (${vp.toString()} mL) cannot be larger than the final volume (${vf.toString()} mL)`, { details: { input: 'aliquot' } });
+  }
+  const inputs: Record<string, UncertainInput> = {
+    parent: { value: i.parent.value, standardUncertainty: i.parent.standardUncertainty, label: 'Parent concentration', unit: i.parent.unit },
+    aliquot: { value: i.aliquot.volumeMl, standardUncertainty: i.aliquot.standardUncertainty, label: 'Aliquot volume', unit: 'mL' },
+    final: { value: i.final.volumeMl, standardUncertainty: i.final.standardUncertainty, label: 'Final volume', unit: 'mL' },
+  };
+  const r = propagate({ model: (x) => x.parent!.mul(x.aliquot!).div(x.final!), inputs });
+  return finish(r.value, r.standardUncertainty, i.parent.unit, r.budget, i.k ?? '2', i.rounding ?? 'half-even');
+}
+
+// ------------------------------------------------------------------ gravimetric
+
+export interface GravimetricDilutionInput {
+  /** mass fraction of the analyte in the parent, mg/kg */
+  parentMassFraction: DecInput;
+  /** its standard uncertainty, mg/kg */
+  u: DecInput;
+  /** net balance reading of the aliquot of parent solution (any mass unit) and its standard uncertainty */
+  aliquotReading: { value: DecInput; standardUncertainty: DecInput };
+  /** net balance reading of the final solution (same unit as the aliquot) and its standard uncertainty */
+  finalReading: { value: DecInput; standardUncertainty: DecInput };
+  /** g/mL: the parent solution (aliquot), the final solution, optional weight density (default 8.0) */
+  densities: {
+    aliquot: DecInput;
+    final: DecInput;
+    aliquotU?: DecInput;
+    finalU?: DecInput;
+    weights?: DecInput;
+  };
+  /** air density, g/mL, and its standard uncertainty (default 0) */
+  air: { density: DecInput; standardUncertainty?: DecInput };
+  k?: DecInput;
+  rounding?: RoundingRule;
+}
+
+export interface GravimetricDilutionResult {
+  massFraction: DilutionResult;
+  /** γ = w·ρ_final (mg/kg × g/mL = mg/L), with u(ρ_final) as an input */
+  massConcentration: DilutionResult;
+  /** B(aliquot)/B(final): close to 1 when the densities are similar (METROLOGY §5.5) */
+  buoyancyRatio: string;
+}
+
+/** w2 = w1·(r_a·B_a)/(r_f·B_f); γ = w2·ρ_final (METROLOGY §5.5). */
+export function gravimetricDilution(i: GravimetricDilutionInput): GravimetricDilutionResult {
+  positive(i.parentMassFraction, 'Parent mass fraction');
+  const ra = positive(i.aliquotReading.value, 'Aliquot reading');
+  const rf = positive(i.finalReading.value, 'Final reading');
+  if (ra.gt(rf)) {
+    throw new CalcError('calc_out_of_range', `The aliquot reading (${ra.toString()}) cannot be larger than the final solution's reading (${rf.toString()})`, { details: { input: 'aliquotReading' } });
+  }
+  const rhoW = i.densities.weights ?? REFERENCE_WEIGHT_DENSITY;
+  const zero = '0';
+  const inputs: Record<string, UncertainInput> = {
+    parent: { value: i.parentMassFraction, standardUncertainty: i.u, label: 'Parent mass fraction', unit: 'mg/kg' },
+    aliquot: { value: i.aliquotReading.value, standardUncertainty: i.aliquotReading.standardUncertainty, label: 'Aliquot weighing' },
+    final: { value: i.finalReading.value, standardUncertainty: i.finalReading.standardUncertainty, label: 'Final solution weighing' },
+    airDensity: { value: i.air.density, standardUncertainty: i.air.standardUncertainty ?? zero, label: 'Air density', unit: 'g/mL' },
+    aliquotDensity: { value: i.densities.aliquot, standardUncertainty: i.densities.aliquotU ?? zero, label: 'Parent solution density', unit: 'g/mL' },
+    finalDensity: { value: i.densities.final, standardUncertainty: i.densities.finalU ?? zero, label: 'Final solution density', unit: 'g/mL' },
+  };
+  const w = (x: Record<string, Dec>) => {
+    const ba = buoyancyFactor({ airDensity: x.airDensity!, sampleDensity: x.aliquotDensity!, weightDensity: rhoW });
+    const bf = buoyancyFactor({ airDensity: x.airDensity!, sampleDensity: x.finalDensity!, weightDensity: rhoW });
+    return x.parent!.mul(x.aliquot!).mul(ba).div(x.final!.mul(bf));
+  };
+  const k = i.k ?? '2';
+  const rule = i.rounding ?? 'half-even';
+  const rw = propagate({ model: w, inputs });
+  const rg = propagate({ model: (x) => w(x).mul(x.finalDensity!), inputs });
+  const ratio = buoyancyFactor({ airDensity: i.air.density, sampleDensity: i.densities.aliquot, weightDensity: rhoW }).div(
+    buoyancyFactor({ airDensity: i.air.density, sampleDensity: i.densities.final, weightDensity: rhoW }),
+  );
+  return {
+    massFraction: finish(rw.value, rw.standardUncertainty, 'mg/kg', rw.budget, k, rule),
+    massConcentration: finish(rg.value, rg.standardUncertainty, 'mg/L', rg.budget, k, rule),
+    buoyancyRatio: s(ratio),
+  };
+}
+
+// ------------------------------------------------------------------ series proposal
+
+export interface SeriesWare {
+  id: number;
+  identifier: string;
+  kind: 'volumetric_flask' | 'bulb_pipette' | 'graduated_pipette' | 'piston_pipette';
+  nominalVolumeMl: string;
+  class: 'A' | 'B' | 'n/a';
+  /** ± mL at nominal volume; the caller fills in the class A table value when none is recorded */
+  toleranceMl?: string | null;
+  status: string;
+}
+
+export interface SeriesChoice {
+  pipette: { id: number; identifier: string; kind: SeriesWare['kind']; class: SeriesWare['class'] };
+  flask: { id: number; identifier: string; class: SeriesWare['class'] };
+  aliquotMl: string;
+  finalMl: string;
+  /** c_parent·Va/Vf in the parent's unit */
+  concentration: string;
+  /** (achieved − target)/target */
+  deviation: string;
+  exact: boolean;
+  /** expected u_r from the two tolerances and the parent's u_r; null when a tolerance is unknown */
+  expectedRelativeU: string | null;
+}
+
+export interface SeriesLevelProposal {
+  target: { value: string; unit: string };
+  choice: SeriesChoice | null;
+  alternatives: SeriesChoice[];
+  /** why no pair fits (only when choice is null) */
+  message?: string;
+}
+
+export interface ProposeSeriesInput {
+  parentConcentration: { value: DecInput; unit: string; standardUncertainty?: DecInput };
+  levels: Array<{ value: string; unit: string }>;
+  pipettes: SeriesWare[];
+  flasks: SeriesWare[];
+  /** smallest bulb-pipette aliquot, mL (common practice: 1 mL); piston pipettes: ≥ 10 % of nominal */
+  minAliquotMl?: DecInput;
+  /** largest |deviation| of an inexact pair (default 0.05 = 5 %) */
+  maxDeviation?: DecInput;
+}
+
+const EXACT = new D('1e-12');
+
+function tolU(w: SeriesWare): Dec | null {
+  if (!w.toleranceMl) return null;
+  return w.kind === 'piston_pipette' ? rectangular(w.toleranceMl) : triangular(w.toleranceMl);
+}
+
+/**
+ * For each level, the in-service pipette/flask pair whose ratio gives the target most closely (exact first),
+ * then class A, then the lowest expected u_r (METROLOGY §5.5 with §4.4 tolerances); bulb pipettes deliver their
+ * nominal volume (≥ minAliquotMl), piston pipettes are set anywhere from 10 % of nominal to nominal (common practice).
+ */
+export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
+  const c1 = positive(i.parentConcentration.value, 'Parent concentration');
+  const ur1 = i.parentConcentration.standardUncertainty !== undefined ? toDec(i.parentConcentration.standardUncertainty, 'parent u').div(c1) : new D(0);
+  const minAliquot = toDec(i.minAliquotMl ?? '1', 'minAliquotMl');
+  const maxDev = toDec(i.maxDeviation ?? '0.05', 'maxDeviation');
+  const pipettes = i.pipettes.filter((p) => p.status === 'in_service' && (p.kind === 'bulb_pipette' || p.kind === 'piston_pipette'));
+  const flasks = i.flasks.filter((f) => f.status === 'in_service' && f.kind === 'volumetric_flask');
+  return i.levels.map((level) => {
+    const target = { value: level.value, unit: level.unit };
+    if (level.unit !== i.parentConcentration.unit) {
+      return { target, choice: null, alternatives: [], message: `The level is in ${level.unit} but the parent is in ${i.parentConcentration.unit}; give levels in ${i.parentConcentration.unit}` };
+    }
+    const c2 = positive(level.value, 'Level concentration');
+    if (c2.gte(c1)) return { target, choice: null, alternatives: [], message: `${level.value} ${level.unit} is not below the parent's ${c1.toString()} ${level.unit}, so it is not a dilution` };
+    const ratio = c2.div(c1);
+    const options: Array<SeriesChoice & { score: [Dec, number, Dec] }> = [];
+    for (const f of flasks) {
+      const vf = toDec(f.nominalVolumeMl, 'flask volume');
+      const uf = tolU(f);
+      for (const p of pipettes) {
+        const nominal = toDec(p.nominalVolumeMl, 'pipette volume');
+        let va: Dec;
+        if (p.kind === 'bulb_pipette') {
+          if (nominal.lt(minAliquot)) continue;
+          va = nominal;
+        } else {
+          va = ratio.mul(vf).toSignificantDigits(6);
+          if (va.gt(nominal) || va.lt(nominal.mul('0.1'))) continue;
+        }
+        if (va.gte(vf)) continue;
+        const achieved = c1.mul(va).div(vf);
+        const dev = achieved.minus(c2).div(c2);
+        if (dev.abs().gt(maxDev)) continue;
+        const up = tolU(p);
+        // a piston pipette's tolerance is stated at nominal; relative error grows at lower settings (ISO 8655): use the absolute value
+        const urExpected = up && uf ? ur1.pow(2).plus(up.div(va).pow(2)).plus(uf.div(vf).pow(2)).sqrt() : null;
+        const exact = dev.abs().lt(EXACT);
+        const classRank = (p.class === 'A' ? 0 : 1) + (f.class === 'A' ? 0 : 1);
+        options.push({
+          pipette: { id: p.id, identifier: p.identifier, kind: p.kind, class: p.class },
+          flask: { id: f.id, identifier: f.identifier, class: f.class },
+          aliquotMl: va.toFixed(),
+          finalMl: vf.toFixed(),
+          concentration: s(achieved),
+          deviation: exact ? '0' : s(dev),
+          exact,
+          expectedRelativeU: urExpected ? s(urExpected) : null,
+          score: [exact ? new D(0) : dev.abs(), classRank, urExpected ?? new D(1)],
+        });
+      }
+    }
+    options.sort((a, b) => a.score[0].cmp(b.score[0]) || a.score[1] - b.score[1] || a.score[2].cmp(b.score[2]) || a.pipette.identifier.localeCompare(b.pipette.identifier) || a.flask.identifier.localeCompare(b.flask.identifier));
+    const clean = options.map(({ score: _score, ...rest }) => rest);
+    if (!clean.length) {
+      return {
+        target,
+        choice: null,
+        alternatives: [],
+        message: `No in-service pipette and flask give ${level.value} ${level.unit} from ${c1.toString()} ${level.unit} within ${maxDev.mul(100).toString()} % (aliquot ≥ ${minAliquot.toString()} mL for bulb pipettes, ≥ 10 % of nominal for piston pipettes)`,
+      };
+    }
+    return { target, choice: clean[0]!, alternatives: clean.slice(1, 6) };
+  });
+}
