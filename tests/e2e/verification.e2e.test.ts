@@ -277,6 +277,8 @@ describe('signatures and second-person verification', () => {
       expect(s.valid).toBe('true');
     });
     await screenshot(ip, 'verify-verified-820');
+    await ip.evaluate(() => window.scrollTo(0, 0));
+    await screenshot(ip, 'verify-verified-top-820', false);
     await ip.locator('#detail-signatures-title').scrollIntoViewIfNeeded();
     await screenshot(ip, 'verify-signatures-820', false);
     await ip.setViewportSize(DESKTOP);
@@ -330,6 +332,28 @@ describe('signatures and second-person verification', () => {
     expect(await mp.locator('[data-testid="signature-entry"][data-meaning="amended"][data-valid="true"]').count()).toBe(1);
     await mp.locator('#detail-signatures-title').scrollIntoViewIfNeeded();
     await screenshot(mp, 'verify-amended-signatures-1280', false);
+
+    // ---------------------------------------------------------------- return to the preparer with a reason (RV-06)
+    const second = await makeCompletePreparation(mp);
+    const signed2 = await call(mp, 'POST', `/api/preparations/${second}/signatures`, { meaning: 'prepared', password: PASSWORD });
+    expect(signed2.status, JSON.stringify(signed2.body)).toBe(201);
+    await ip.goto(`${server.baseUrl}/preparations/${second}/verify`);
+    await ip.waitForSelector('[data-testid="verification-panel"]');
+    await ip.click('[data-testid="sign-returned"]');
+    await ip.waitForSelector('[data-testid="signature-dialog"][open]');
+    expect(await text(ip, 'signature-meaning-text')).toBe(SIGNATURE_MEANING_TEXT.returned);
+    await ip.fill('[data-testid="signature-password"]', PASSWORD);
+    await ip.click('[data-testid="signature-submit"]'); // the reason is required
+    await ip.waitForSelector('[data-testid="signature-reason"][aria-invalid="true"]');
+    await ip.fill('[data-testid="signature-reason"]', 'Solution temperature not recorded on the flask log; add it before signing again');
+    await ip.click('[data-testid="signature-submit"]');
+    await ip.waitForURL(new RegExp(`/preparations/${second}$`));
+    await ip.waitForSelector('[data-testid="status-reason"]');
+    expect(await text(ip, 'detail-status')).toContain('Returned');
+    expect(await text(ip, 'status-reason')).toMatch(/Returned to the preparer by Idris Okonkwo-Baptiste.*flask log/);
+    await mp.goto(`${server.baseUrl}/preparations/${second}`);
+    await mp.waitForSelector('[data-testid="status-reason"]');
+    await screenshot(mp, 'verify-returned-1280', false);
 
     // ---------------------------------------------------------------- a new chemist's first signature (ES-08)
     const created = await call(ap, 'POST', '/api/users', {

@@ -5,6 +5,7 @@ import { Banner } from '../../../components/ui/feedback.tsx';
 import type { PreparationDetail, SignableMeaning } from '../../../../shared/schemas/preparations.ts';
 import { useAuth } from '../../auth/use-auth.ts';
 import { SignatureDialog } from './signature-dialog.tsx';
+import { StatusReasonBanner } from './status-badge.tsx';
 
 /** An action the user may not take now, shown disabled with the server's reason beside it (never hidden silently). */
 export function DisabledWithReason({ label, reason, testId }: { label: ReactNode; reason: string; testId: string }) {
@@ -50,10 +51,12 @@ export function SignActions({ d }: { d: PreparationDetail }) {
   const showDiscard = (role === 'chemist' || role === 'qa') && d.status !== 'discarded' && d.status !== 'expired';
   const notComplete = role === 'chemist' && d.stage !== 'complete' && (d.status === 'planned' || d.status === 'returned');
 
-  if (!showPrepare && !showVerify && !showDiscard && !notComplete && !done) return null;
+  const hasReason = d.status === 'returned' || d.status === 'discarded';
+  if (!showPrepare && !showVerify && !showDiscard && !notComplete && !done && !hasReason) return null;
 
   return (
     <div className="flex flex-col gap-3" data-testid="sign-actions">
+      <StatusReasonBanner d={d} />
       {done ? (
         <Banner tone="ok" title="Signed" testId="sign-done">
           {done}

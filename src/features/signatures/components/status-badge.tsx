@@ -91,3 +91,23 @@ export function StatusExplainer({ d }: { d: Pick<PreparationDetail, 'status' | '
     </p>
   );
 }
+
+/** A returned or discarded record says why, where the preparer looks first (REQUIREMENTS RV-06, CO-05). */
+export function StatusReasonBanner({ d }: { d: Pick<PreparationDetail, 'status' | 'signatures'> }) {
+  if (d.status !== 'returned' && d.status !== 'discarded') return null;
+  const sig = [...(d.signatures ?? [])].reverse().find((s) => s.meaning === d.status);
+  if (!sig) return null;
+  return (
+    <div
+      role="status"
+      data-testid="status-reason"
+      className={`rounded-lg border-2 border-l-8 px-4 py-3 ${d.status === 'returned' ? 'border-bad-700 bg-bad-50' : 'border-ink-soft bg-slate-100'}`}
+    >
+      <p className="font-bold">
+        {d.status === 'returned' ? `Returned to the preparer by ${sig.signer.fullName}` : `Discarded by ${sig.signer.fullName}`}
+      </p>
+      <p>{sig.reason}</p>
+      {d.status === 'returned' ? <p className="mt-1 text-sm text-ink-soft">Make the changes on the bench view (each with its reason), then sign as prepared again.</p> : null}
+    </div>
+  );
+}
