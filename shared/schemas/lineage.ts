@@ -1,0 +1,153 @@
+/**
+ * Standards made from standards: dilutions of a verified parent, calibration series, and the lineage section
+ * of a preparation's detail (REQUIREMENTS TR-04, TR-11, EX-01; METROLOGY §5.5).
+ * Decimal strings throughout; volumes in mL.
+ */
+import { z } from 'zod';
+import Decimal from 'decimal.js';
+import { DECIMAL_TEXT } from './decimal-text.ts';
+import { CONCENTRATION_UNITS, isConcentrationUnit } from '../calc/units.ts';
+import type { DilutionResult, SeriesLevelProposal } from '../calc/dilution.ts';
+import type { VolumetricWare } from './inventory.ts';
+import type { PreparationDetail } from './preparations.ts';
+
+export type { DilutionResult, SeriesLevelProposal };
+
+export const PREPARATION_KINDS = ['stock', 'dilution', 'series_level', 'mix'] as const;
+export type PreparationKind = (typeof PREPARATION_KINDS)[number];
+
+const positiveDecimal = (what: string) =>
+  z
+    .string({ error: `Enter ${what} as a number, e.g. 10.0` })
+    .trim()
+    .min(1, `Enter ${what}`)
+    .regex(DECIMAL_TEXT, { error: `Enter ${what} as a decimal number such as 10.0 (use a point, not a comma)`, abort: true })
+    .refine((s) => !DECIMAL_TEXT.test(s) || new Decimal(s).gt(0), `${what.charAt(0).toUpperCase() + what.slice(1)} must be greater than 0`);
+
+const id = (what: string) => z.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
+const reason = (what: string) => z.string({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
+
+export const concentrationSchema = z.object({
+  value: positiveDecimal('the target concentration'),
+  unit: z
+    .string({ error: 'Choose a unit for the target concentration' })
+    .trim()
+    .refine(isConcentrationUnit, `Use one of ${CONCENTRATION_UNITS.join(', ')} for the target concentration`),
+});
+
+/** Body of POST /api/preparations/:key/dilutions (key = the parent). */
+export const dilutionInputSchema = z.object({
+  method: z.literal('volumetric', { error: 'Only volumetric dilutions can be planned so far' }),
+  target: concentrationSchema,
+  pipetteId: id('a pipette'),
+  flaskId: id('a volumetric flask'),
+  /** piston pipettes: the volume to set, mL (default: the nominal volume); bulb pipettes deliver their nominal */
+  aliquotMl: positiveDecimal('the aliquot volume').optional(),
+  solventId: id('the solvent').optional(),
+  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+});
+export type DilutionInput = z.output<typeof dilutionInputSchema>;
+
+const parentKey = z.string({ error: 'Give the parent preparation (identifier or id)' }).trim().min(1, 'Give the parent preparation (identifier or id)').max(40, 'Use at most 40 characters');
+
+/** Body of POST /api/series/proposal. */
+export const seriesProposalInputSchema = z.object({
+  parentKey,
+  levels: z.array(concentrationSchema, { error: 'Give the levels' }).min(1, 'Give at least one level').max(12, 'Use at most 12 levels'),
+  minAliquotMl: positiveDecimal('the minimum aliquot').optional(),
+});
+export type SeriesProposalInput = z.output<typeof seriesProposalInputSchema>;
+
+/** Body of POST /api/series: each level becomes its own planned preparation (kind series_level). */
+export const createSeriesInputSchema = z.object({
+  parentKey,
+  levels: z
+    .array(
+      z.object({ target: concentrationSchema, pipetteId: id('a pipette'), flaskId: id('a volumetric flask'), aliquotMl: positiveDecimal('the aliquot volume').optional() }),
+      { error: 'Give the levels' },
+    )
+    .min(1, 'Give at least one level')
+    .max(12, 'Use at most 12 levels'),
+  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+});
+export type CreateSeriesInput = z.output<typeof createSeriesInputSchema>;
+
+/** Body of POST /api/preparations/:key/aliquots: the aliquot actually delivered (pipette confirmed by scan). */
+export const aliquotInputSchema = z.object({
+  pipetteIdentifier: z.string({ error: 'Scan or type the pipette identifier' }).trim().min(1, 'Scan or type the pipette identifier').max(100, 'Use at most 100 characters'),
+  /** piston pipettes: the volume set, as typed; bulb pipettes: omit (the nominal volume is delivered) */
+  volumeMl: positiveDecimal('the delivered volume').optional(),
+  supersedesId: id('the aliquot to correct').optional(),
+  correctionReason: reason('the reason for the correction').optional(),
+});
+export type AliquotInput = z.output<typeof aliquotInputSchema>;
+
+// ---------------------------------------------------------------- DTOs
+
+/** A parent as it was when it was used (frozen). */
+export interface ParentSnapshot {
+  id: number;
+  identifier: string;
+  kind: PreparationKind;
+  status: string;
+  version: number;
+  analyteFormula: string;
+  concentration: { value: string; unit: string; standardUncertainty: string; display: string };
+  expiresOn: string;
+}
+
+export interface Aliquot {
+  id: number;
+  pipette: { id: number; identifier: string; snapshot: VolumetricWare };
+  volumeMl: string;
+  supersedesId?: number;
+  supersededById?: number;
+  correctionReason?: string;
+  recordedBy: { id: number; fullName: string };
+  recordedAt: string;
+}
+
+export interface DilutionSection {
+  method: 'volumetric';
+  parent: { id: number; identifier: string; snapshot: ParentSnapshot };
+  plannedAliquot: { pipette: { id: number; identifier: string; snapshot: VolumetricWare }; volumeMl: string };
+  plannedFinalMl: string;
+  /** the expected concentration and budget with the planned ware (parent as an input, tolerances triangular) */
+  planned: DilutionResult;
+  aliquots: Aliquot[];
+  /** recomputed from the stored aliquot and make-up; absent until both are recorded */
+  result?: DilutionResult & { calcVersion: string; basedOn: { aliquotId: number; makeUpId: number } };
+  series?: { id: number; identifier: string };
+}
+
+/** What the detail of any preparation carries about its lineage (stocks: kind only, plus children). */
+export interface LineageSection {
+  kind: PreparationKind;
+  dilution?: DilutionSection;
+  /** preparations made from this one (forward trace, TR-04) */
+  children: Array<{ id: number; identifier: string; kind: PreparationKind; status: string }>;
+}
+
+export type PreparationDetailWithLineage = PreparationDetail & LineageSection;
+
+export interface SeriesDto {
+  id: number;
+  identifier: string;
+  parent: { id: number; identifier: string };
+  analyteFormula: string;
+  unit: string;
+  createdBy: { id: number; fullName: string };
+  createdAt: string;
+  levels: Array<{ id: number; identifier: string; status: string; target: { value: string; unit: string }; pipetteIdentifier: string; flaskIdentifier: string; plannedConcentration: string; expiresOn: string }>;
+}
+
+export interface SeriesProposalResponse {
+  parent: ParentSnapshot;
+  minAliquotMl: string;
+  levels: SeriesLevelProposal[];
+}
+
+export interface CreateSeriesResponse {
+  series: SeriesDto;
+  preparations: PreparationDetailWithLineage[];
+}
