@@ -131,8 +131,7 @@ export function LabelsDocument({ data }: { data: LabelsData }) {
   return (
     <Document title={title} creator="Tarebook" producer="Tarebook" creationDate={new Date(data.createdAt)}>
       {pages.map((cellsOnPage, p) => (
-        // wrap={false}: labels are placed absolutely, so the page needs no pagination pass (much faster)
-        <Page key={p} size={size} wrap={false} style={{ position: 'relative', fontFeatureSettings: PLAIN_SHAPING }}>
+        <Page key={p} size={size} style={{ position: 'relative', fontFeatureSettings: PLAIN_SHAPING }}>
           {cellsOnPage.map((i) => (
             <OneLabel key={i} data={data} left={cells[i]![0]} top={cells[i]![1]} />
           ))}

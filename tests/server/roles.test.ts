@@ -54,6 +54,11 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/audit/verify', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'get', path: '/api/audit/records/:entity/:entityId', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/outbox', allowed: ['admin'], ok: 200 },
+  { method: 'get', path: '/api/trace/:identifier', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
+  { method: 'get', path: '/api/trace/:identifier/report.pdf', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
+  { method: 'get', path: '/api/trace/:identifier/report.csv', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
+  { method: 'get', path: '/api/preparations/:key/review-flags', allowed: 'signedIn', ok: 200 },
+  { method: 'post', path: '/api/admin/expiry-digest', allowed: ['admin'], ok: 200 },
 ];
 
 /**
@@ -80,7 +85,16 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/preparations/:key/weighings': 'preparations.test.ts',
   'POST /api/preparations/:key/make-up': 'preparations.test.ts',
   'POST /api/preparations/:key/signatures': 'signatures.test.ts',
+  'GET /api/preparations/:key/prep-sheet.pdf': 'printing.test.ts',
+  'GET /api/label-templates': 'printing.test.ts',
+  'POST /api/label-templates': 'printing.test.ts',
+  'PATCH /api/label-templates/:id': 'printing.test.ts',
+  'GET /api/preparations/:key/labels-preview.pdf': 'printing.test.ts',
+  'POST /api/preparations/:key/label-prints': 'printing.test.ts',
+  'GET /api/preparations/:key/label-prints': 'printing.test.ts',
+  'GET /api/label-prints/:id/labels.pdf': 'printing.test.ts',
   'GET /api/outbox/:id': 'mail.test.ts',
+  'POST /api/trace/:identifier/review-flags': 'trace.test.ts',
 };
 
 function expected(row: Row, who: Who): number {
@@ -135,7 +149,7 @@ describe('permission matrix', () => {
 
   const cases = ROWS.flatMap((row) => WHO.map((who) => [`${row.method.toUpperCase()} ${row.path}`, who, row] as const));
   it.each(cases)('%s as %s', async (_name, who, row) => {
-    const url = row.path.replace(':entity/:entityId', 'preparation/1').replace(':id', String(targetId));
+    const url = row.path.replace(':entity/:entityId', 'preparation/1').replace(':identifier', 'HWL-2026-0001').replace(':key', 'HWL-2026-0001').replace(':id', String(targetId));
     let req = request(t.app)[row.method](url);
     if (who !== 'signedOut') req = req.set('Cookie', cookies[who]!);
     if (row.body) req = req.send(row.body(who) as object);
