@@ -21,6 +21,7 @@ import { openDatabase } from '../../server/db/sequelize.ts';
 import { hashPassword } from '../../server/services/passwords.ts';
 import { DEMO_PASSWORD } from '../../seed/demo-data.ts';
 import { seedDemoLab } from '../../seed/seed-demo-lab.ts';
+import { printingSection } from './printing-bench.ts';
 
 export interface BenchContext {
   app: Express;
@@ -123,7 +124,7 @@ export const inventoryListSection: BenchSection = {
   ],
 };
 
-export const SECTIONS: BenchSection[] = [inventoryListSection];
+export const SECTIONS: BenchSection[] = [inventoryListSection, printingSection];
 
 function percentile(sorted: number[], p: number): number {
   if (!sorted.length) return NaN;
