@@ -16,6 +16,7 @@ import { initModels, User } from './db/models/index.ts';
 import { openDatabase } from './db/sequelize.ts';
 import { startFakeSmtpServer, type FakeSmtpServer } from './mail/fake-smtp.ts';
 import { createMailer, smtpTransport, type Mailer } from './mail/mailer.ts';
+import { startScheduler } from './jobs/scheduler.ts';
 
 /**
  * Builds the client in a child process: Vite's in-process build() sets NODE_ENV=production for the
@@ -86,6 +87,7 @@ async function main(): Promise<void> {
   console.log(`Tarebook listening on http://localhost:${port}`);
   app.locals.publicUrl = config.publicUrl ?? `http://localhost:${port}`;
   mailer?.kick(); // deliver what was queued before a restart (and the demo seed's messages)
+  const scheduler = await startScheduler({ publicUrl: () => app.locals.publicUrl as string, mailer }); // daily expiry digest, 06:00 lab time
 
   let closing = false;
   const shutdown = async (signal: string) => {
@@ -96,6 +98,7 @@ async function main(): Promise<void> {
     force.unref();
     httpServer.closeIdleConnections?.();
     await new Promise<void>((resolve) => httpServer.close(() => resolve()));
+    await scheduler.stop();
     await vite?.close();
     mailer?.close();
     await fakeSmtp?.close();

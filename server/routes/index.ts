@@ -9,6 +9,7 @@ import { inventoryRouter } from './inventory.routes.ts';
 import { preparationsRouter } from './preparations.routes.ts';
 import { printingRouter } from './printing.routes.ts';
 import { signaturesRouter } from './signatures.routes.ts';
+import { traceRouter } from './trace.routes.ts';
 import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
@@ -27,6 +28,7 @@ export function apiRouter(config: Config): Router {
   router.use(printingRouter());
   router.use(signaturesRouter(config));
   router.use(outboxRouter());
+  router.use(traceRouter(config));
   router.use(auditRouter());
   return router;
 }

@@ -59,7 +59,12 @@ export const labSettingsSchema = z.object({
   defaultStabilityBasis: z.string({ error: 'Say where the stability period comes from' }).trim().min(1, 'Say where the stability period comes from').max(200, 'Use at most 200 characters').optional(),
   /** Stability rules by kind, analyte and concentration (unset or none applicable: the default period above). */
   stabilityRules: z.array(stabilityRuleSchema).max(100, 'Use at most 100 rules').optional(),
+  /** Days before expiry that a standard appears in the daily expiry digest to its preparer (unset: DEFAULT_EXPIRY_NOTICE_DAYS). */
+  expiryNoticeDays: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 365 days').max(365, 'Use 0 to 365 days').optional(),
 });
+
+/** Used when settings.expiryNoticeDays is unset (a lab choice, common practice: two weeks' notice). */
+export const DEFAULT_EXPIRY_NOTICE_DAYS = 14;
 
 /** Used when settings.defaultStabilityDays is unset (METROLOGY §10: a lab-editable default, not science). */
 export const DEFAULT_STABILITY_DAYS = 30;

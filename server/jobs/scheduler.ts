@@ -1,0 +1,48 @@
+/**
+ * In-process scheduler (node-cron): the daily expiry digest at 06:00 in the lab's time zone
+ * (settings.timeZone, read at start-up; a changed zone applies after a restart). Started by server/index.ts
+ * after the server listens; never in tests unless a test starts it. A failed run is logged, never thrown.
+ */
+import cron, { type ScheduledTask } from 'node-cron';
+import type { Mailer } from '../mail/mailer.ts';
+import { runExpiryDigest } from '../services/expiry-digest.service.ts';
+import { getSettings } from '../services/settings.service.ts';
+
+/** Minute, hour, day of month, month, day of week: every day at 06:00. */
+export const EXPIRY_DIGEST_CRON = '0 6 * * *';
+
+export interface SchedulerOptions {
+  publicUrl: () => string;
+  mailer?: Mailer;
+  log?: (message: string) => void;
+}
+
+export interface Scheduler {
+  timeZone: string;
+  stop(): Promise<void>;
+}
+
+export async function startScheduler(opts: SchedulerOptions): Promise<Scheduler> {
+  const log = opts.log ?? ((m: string) => console.log(m));
+  const { timeZone } = await getSettings();
+  const tasks: ScheduledTask[] = [
+    cron.schedule(
+      EXPIRY_DIGEST_CRON,
+      async () => {
+        try {
+          const r = await runExpiryDigest(new Date(), { publicUrl: opts.publicUrl(), mailer: opts.mailer, actor: null });
+          log(`Expiry digest for ${r.on}: ${r.sent} e-mail${r.sent === 1 ? '' : 's'} queued`);
+        } catch (err) {
+          log(`Expiry digest failed: ${(err as Error).message}`);
+        }
+      },
+      { timezone: timeZone, name: 'expiry-digest', noOverlap: true },
+    ),
+  ];
+  return {
+    timeZone,
+    stop: async () => {
+      for (const t of tasks) await t.stop();
+    },
+  };
+}
