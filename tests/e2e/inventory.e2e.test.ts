@@ -272,9 +272,10 @@ describe('inventory pages', () => {
       await page.waitForSelector('[data-testid="min-weight"]');
       expect(await page.textContent('[data-testid="min-weight-value"]')).toBe(withMin.minWeightMg);
       expect(await page.textContent('[data-testid="min-weight-basis"]')).toContain('USP <41>: m_min = 2000·max(s, 0.41 d) × SF');
-      // USP <41> (METROLOGY §7) on the seeded BAL-A1: s = 0.08 mg > 0.41 × 0.1 mg, so 2000 × 0.08 = 160 mg; × SF 2 = 320 mg.
+      // USP <41> (METROLOGY §7) on the seeded BAL-A1: s = 0.08 mg > 0.41 × 0.1 mg, so 2000 × 0.08 = 160 mg (the demo lab's SF is 1).
       expect(withMin.identifier).toBe('BAL-A1');
-      expect(await page.textContent('[data-testid="min-weight-redo"]')).toContain('= 160 mg; × SF 2 = 320 mg');
+      expect(await page.textContent('[data-testid="min-weight-redo"]')).toContain('= 160 mg');
+      expect(withMin.minWeightMg).toBe('160');
       await page.setViewportSize(TABLET);
       await noPageOverflow(page);
       await screenshot(page, 'e2e-inventory-balance-detail-tablet');
