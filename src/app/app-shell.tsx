@@ -19,6 +19,7 @@ const NAV: NavItem[] = [
   { to: '/inventory/balances', label: 'Balances', group: 'Inventory', testId: 'nav-inventory-balances' },
   { to: '/inventory/volumetric-ware', label: 'Volumetric ware', group: 'Inventory', testId: 'nav-inventory-ware' },
   { to: '/inventory/solvents', label: 'Solvents', group: 'Inventory', testId: 'nav-inventory-solvents' },
+  { to: '/trace', label: 'Trace', roles: ['qa', 'admin', 'chemist'], testId: 'nav-trace' },
   { to: '/audit', label: 'Audit trail', roles: ['qa', 'admin'], testId: 'nav-audit' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
   { to: '/admin/outbox', label: 'Outbox', roles: ['admin'], testId: 'nav-outbox' },

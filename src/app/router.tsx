@@ -49,7 +49,19 @@ export const router = createBrowserRouter([
                 element: <RequireRole roles={['chemist', 'technician', 'qa']} />,
                 children: [{ path: ':identifier/print', lazy: async () => ({ Component: (await import('../features/printing/print-page.tsx')).PrintPage }) }],
               },
+              {
+                element: <RequireRole roles={['chemist']} />,
+                children: [
+                  { path: ':identifier/dilute', lazy: async () => ({ Component: (await import('../features/lineage/dilute-page.tsx')).DilutePage }) },
+                  { path: ':identifier/series', lazy: async () => ({ Component: (await import('../features/lineage/series-page.tsx')).SeriesPage }) },
+                ],
+              },
             ],
+          },
+          {
+            path: 'trace',
+            element: <RequireRole roles={['qa', 'admin', 'chemist']} />,
+            children: [{ index: true, lazy: async () => ({ Component: (await import('../features/trace/trace-page.tsx')).TracePage }) }],
           },
           {
             path: 'audit',

@@ -14,6 +14,7 @@ import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
+import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
 import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
 
@@ -169,6 +170,8 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </div>
       ) : null}
 
+      {!verification ? <DilutionActions d={d} /> : null}
+
       {canOpenPrint ? (
         <div>
           <Link
@@ -189,6 +192,8 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
             {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume {qty(d.result.volume)}.
           </p>
         </Panel>
+      ) : isDilution(d) ? (
+        <DilutionPlanPanel d={d} />
       ) : (
         <Panel title="Expected result" id="detail-expected">
           <p className="num text-2xl font-semibold" data-testid="detail-expected">
@@ -211,6 +216,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </Panel>
       ) : null}
 
+      {isDilution(d) ? null : (
       <Panel title="Plan" id="detail-plan">
         <Facts
           testId="detail-plan-facts"
@@ -225,6 +231,11 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
           ]}
         />
         {d.notes ? <p className="mt-3">Notes: {d.notes}</p> : null}
+      </Panel>
+      )}
+
+      <Panel title="Lineage" id="detail-lineage">
+        <LineagePanel d={d} />
       </Panel>
 
       <Panel title="Inputs as frozen at planning" id="detail-snapshot">

@@ -1,0 +1,27 @@
+/**
+ * May a working standard be made from this parent? Only from a verified, in-date record with a result
+ * (REQUIREMENTS §0.1 principle 5: inputs are chosen only from released, unexpired items). The server
+ * enforces the same rule; the client explains it before the chemist fills the form.
+ */
+import type { PreparationDetail } from '../preparations/types.ts';
+
+/** Today's calendar date in the lab's time zone, YYYY-MM-DD. */
+export function labToday(timeZone: string | undefined, now: Date = new Date()): string {
+  try {
+    const parts = new Intl.DateTimeFormat('en-CA', { timeZone: timeZone ?? 'UTC', year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
+    const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
+    return `${get('year')}-${get('month')}-${get('day')}`;
+  } catch {
+    return now.toISOString().slice(0, 10);
+  }
+}
+
+/** Why a dilution cannot be made from `d` today, or null when it can. */
+export function parentRefusal(d: PreparationDetail, today: string): string | null {
+  if (d.status !== 'verified') {
+    return `${d.identifier} is ${d.status === 'planned' ? 'not yet signed' : `'${d.status}'`}: only a verified standard can be diluted. It must be signed "prepared" and then verified by a second chemist.`;
+  }
+  if (d.expiry.expiresOn < today) return `${d.identifier} expired on ${d.expiry.expiresOn}; an expired standard cannot be diluted.`;
+  if (!d.result) return `${d.identifier} has no computed concentration yet.`;
+  return null;
+}
