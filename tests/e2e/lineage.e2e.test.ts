@@ -2,7 +2,8 @@
  * Working standards and trace through a real browser (REQUIREMENTS TR-04, W1, W2):
  * a chemist opens the dilution page of the verified demo Pb stock, sees the expected concentration live for
  * a 10 mL pipette into a 100 mL flask (checked against the dilution core, METROLOGY §5.5), creates the
- * dilution and finds the parent in its Lineage section; a record that is not verified is refused on the page
+ * dilution and finds the parent in its Lineage section, then makes a five-level calibration series from the same
+ * stock (proposed glassware per level, one record per level); a record that is not verified is refused on the page
  * with the reason. QA then traces the demo Pb(NO3)2 lot and sees the stock and the new dilution made from it,
  * in the graph (nodes labelled with type and status in words) and in the list fallback, and flags them for
  * review only after giving a reason and confirming.
@@ -108,6 +109,24 @@ describe('working standards and trace', () => {
     await page.waitForSelector('[data-testid="detail-lineage-graph"] .react-flow__node');
     await page.locator('#detail-lineage-title').scrollIntoViewIfNeeded();
     await screenshot(page, 'lineage-detail-1280', false);
+
+    // A calibration series from the same stock: five levels, the server proposes glassware, each level becomes a record.
+    await page.goto(`${server.baseUrl}/preparations/${pbStock}/series`);
+    await page.waitForSelector('[data-testid="series-target-4"]');
+    const levels = ['2', '4', '10', '20', '40']; // mg/L; each an exact bulb-pipette/flask ratio of a ~1000 mg/L stock
+    for (const [i, v] of levels.entries()) await page.fill(`[data-testid="series-target-${i}"]`, v);
+    await page.click('[data-testid="series-propose"]');
+    await page.waitForSelector('[data-testid="series-table"]');
+    for (let i = 0; i < levels.length; i++) {
+      expect(await page.inputValue(`[data-testid="series-pipette-${i}"]`), `level ${i + 1} has a proposed pipette`).not.toBe('');
+      expect(await page.inputValue(`[data-testid="series-flask-${i}"]`), `level ${i + 1} has a proposed flask`).not.toBe('');
+      expect(await page.textContent(`[data-testid="series-expected-${i}"]`)).toContain('± ');
+    }
+    await screenshot(page, 'lineage-series-proposal-1280');
+    await page.click('[data-testid="series-create"]');
+    await page.waitForSelector('[data-testid="series-created-list"]');
+    expect(await page.locator('[data-testid="series-created-list"] li').count()).toBe(levels.length);
+    await screenshot(page, 'lineage-series-created-1280', false);
 
     // A record that is not verified is refused on the page, with the reason (the TOC demo record awaits review).
     const prepared = await call(page, 'GET', '/api/preparations?status=prepared&pageSize=50');
