@@ -44,6 +44,7 @@ export function fontFor(text: string): string {
 
 /**
  * OpenType features switched off for speed: Inter's contextual alternates and ligatures made text shaping
- * the slowest step of a label sheet (fontkit GSUB lookups). Plain shaping looks the same for our text.
+ * the slowest step of a label sheet (fontkit GSUB lookups). Only calt and liga: switching off ccmp/locl/mark/kern as
+ * well made fontkit drop the full stop and the digit before it ("0.9995" printed as ".9995") in the prep sheet.
  */
-export const PLAIN_SHAPING = { calt: false, liga: false, clig: false, rlig: false, ccmp: false, locl: false, mark: false, mkmk: false, kern: false } as const;
+export const PLAIN_SHAPING = { calt: false, liga: false } as const;
