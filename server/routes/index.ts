@@ -6,6 +6,7 @@ import { calcRouter } from './calc.routes.ts';
 import { certificatesRouter } from './certificates.routes.ts';
 import { healthRouter } from './health.routes.ts';
 import { inventoryRouter } from './inventory.routes.ts';
+import { lineageRouter } from './lineage.routes.ts';
 import { preparationsRouter } from './preparations.routes.ts';
 import { printingRouter } from './printing.routes.ts';
 import { signaturesRouter } from './signatures.routes.ts';
@@ -25,6 +26,7 @@ export function apiRouter(config: Config): Router {
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());
+  router.use(lineageRouter());
   router.use(printingRouter());
   router.use(signaturesRouter(config));
   router.use(outboxRouter());

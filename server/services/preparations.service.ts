@@ -38,6 +38,7 @@ import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from
 import { getSettings } from './settings.service.ts';
 import { checkChange, recordAmendment, signatureView } from './signatures.service.ts';
 import { dataEntryMode } from './preparation-status.ts';
+import { assertWeighable, lineageExpiry, lineageSection } from './lineage-view.ts';
 
 export interface Actor {
   id: number;
@@ -435,6 +436,7 @@ async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationD
     statusHistory: events.map((e) => ({ status: e.status, at: e.at, by: { id: e.byId, fullName: e.byName }, ...(e.note ? { note: e.note } : {}) })),
     expiry: { expiresOn: p.expiresOn, reason: p.expiryReason },
     ...(await signatureView(p, weighings, makeUps, viewerId)),
+    ...(await lineageSection(p, await getSettings())),
   };
   if (p.notes) detail.notes = p.notes;
   if (latestMakeUp) detail.makeUp = makeUpDto(latestMakeUp, users);
@@ -547,6 +549,7 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
   const now = opts.now ?? new Date();
   const prep = await findPreparation(key);
   dataEntryMode(prep.identifier, prep.status); // 409 when expired or discarded
+  await assertWeighable(prep); // a volumetric dilution has an aliquot, not a weighing
   const settings = await getSettings();
   const today = labDate(now, settings.timeZone);
   const balanceId = input.balanceId ?? prep.balanceId;
@@ -724,7 +727,7 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
 
   const amendment = await checkChange(prep, actor, input.signature, input.correctionReason, { lockoutThreshold: opts.lockoutThreshold ?? 5 });
   const at = now.toISOString();
-  const expiry = expiryOf(prep.snapshotMaterial, settings, today);
+  const expiry = await lineageExpiry(prep, settings, today); // stability rule, material and every parent (EX-01, EX-02)
   await writeTransaction(async (transaction) => {
     if (amendment) {
       await prep.reload({ transaction });

@@ -95,6 +95,11 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'GET /api/label-prints/:id/labels.pdf': 'printing.test.ts',
   'GET /api/outbox/:id': 'mail.test.ts',
   'POST /api/trace/:identifier/review-flags': 'trace.test.ts',
+  'POST /api/preparations/:key/dilutions': 'lineage.test.ts',
+  'POST /api/preparations/:key/aliquots': 'lineage.test.ts',
+  'POST /api/series/proposal': 'lineage.test.ts',
+  'POST /api/series': 'lineage.test.ts',
+  'GET /api/series/:key': 'lineage.test.ts',
 };
 
 function expected(row: Row, who: Who): number {

@@ -14,6 +14,7 @@ import { initWeighing } from './weighing.model.ts';
 import { initPrinting } from './printing.model.ts';
 import { initSignatures } from './signature.model.ts';
 import { initMail } from './mail.model.ts';
+import { initLineage } from './lineage.model.ts';
 
 export { User } from './user.model.ts';
 export { AuditEntry } from './audit-entry.model.ts';
@@ -26,6 +27,7 @@ export { MakeUp } from './make-up.model.ts';
 export { LabelPrint, LabelTemplate, type LabelSnapshot, type TemplateSnapshot } from './printing.model.ts';
 export { Signature, RecordVersion, SignatureAcknowledgement, ReviewFlag } from './signature.model.ts';
 export { MailQueueItem, FakeMail, type MailStatus } from './mail.model.ts';
+export { PreparationParent, DilutionAliquot, Series } from './lineage.model.ts';
 
 const bound = new WeakSet<Sequelize>();
 
@@ -39,6 +41,7 @@ export function initModels(sequelize: Sequelize) {
   initPrinting(sequelize);
   initSignatures(sequelize);
   initMail(sequelize);
+  initLineage(sequelize);
   bound.add(sequelize);
   return models;
 }

@@ -1,0 +1,176 @@
+/**
+ * Lineage pieces the preparation journey calls (no import of preparations.service, so no import cycle):
+ * the lineage section of a detail, the expiry of any preparation (stability rule + reference material +
+ * every parent, REQUIREMENTS EX-01/EX-02), the guard that keeps weighings off volumetric dilutions, and the
+ * recomputation of a dilution from its stored aliquot and make-up (METROLOGY §5.5).
+ */
+import { QueryTypes, type Transaction } from 'sequelize';
+import { rectangular, triangular } from '../../shared/calc/index.ts';
+import { volumetricDilution, type DilutionResult } from '../../shared/calc/dilution.ts';
+import { classATolerance, computeExpiry, type ExpiryResult } from '../../shared/prep/index.ts';
+import { selectStabilityRule } from '../../shared/prep/stability-rules.ts';
+import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
+import type { Aliquot, DilutionSection, LineageSection, ParentSnapshot, PreparationKind } from '../../shared/schemas/lineage.ts';
+import { DEFAULT_STABILITY_BASIS, DEFAULT_STABILITY_DAYS, type LabSettings } from '../../shared/schemas/settings.ts';
+import { DilutionAliquot, MakeUp, Preparation, PreparationParent, Series, User } from '../db/models/index.ts';
+import { AppError } from '../errors/app-error.ts';
+
+export const DILUTION_CALC_VERSION = 'dilution-1 (METROLOGY §5.5: c2 = c1·Vp/Vf, relative variances add, no per-item temperature term)';
+
+export async function lineageRow(id: number, transaction?: Transaction): Promise<{ kind: PreparationKind; seriesId: number | null }> {
+  const rows = await Preparation.sequelize!.query<{ kind: string; series_id: number | null }>('SELECT kind, series_id FROM preparations WHERE id = :id', {
+    replacements: { id },
+    type: QueryTypes.SELECT,
+    ...(transaction ? { transaction } : {}),
+  });
+  return { kind: (rows[0]?.kind ?? 'stock') as PreparationKind, seriesId: rows[0]?.series_id ?? null };
+}
+
+export const isDilutionKind = (k: string) => k === 'dilution' || k === 'series_level';
+
+/** Standard uncertainty of a pipette's delivered volume from its tolerance (bulb: triangular, QUAM A1; piston: rectangular, ISO 8655 MPE). */
+export function pipetteUncertainty(w: WareDto): { standardUncertainty: string; basis: string } | null {
+  const tol = w.toleranceMl ?? (w.class === 'A' && w.kind === 'bulb_pipette' ? classATolerance('pipette', w.nominalVolumeMl)?.toleranceMl : undefined);
+  if (!tol) return null;
+  if (w.kind === 'piston_pipette') return { standardUncertainty: rectangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${w.identifier}, rectangular` };
+  return { standardUncertainty: triangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${w.identifier}, triangular` };
+}
+
+/** Flask volume u from its tolerance (triangular, QUAM A1), class A table when none is recorded (METROLOGY §4.4). */
+export function flaskUncertainty(w: WareDto): { standardUncertainty: string; basis: string } | null {
+  const tol = w.toleranceMl ?? (w.class === 'A' ? classATolerance('flask', w.nominalVolumeMl)?.toleranceMl : undefined);
+  if (!tol) return null;
+  return { standardUncertainty: triangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${w.identifier}, triangular` };
+}
+
+export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: WareDto, flask: WareDto, rounding: LabSettings['roundingRule']): DilutionResult {
+  const up = pipetteUncertainty(pipette);
+  const uf = flaskUncertainty(flask);
+  if (!up || !uf) throw AppError.validation(`${!up ? pipette.identifier : flask.identifier} has no tolerance recorded`);
+  return volumetricDilution({
+    parent: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
+    aliquot: { volumeMl: aliquotMl, standardUncertainty: up.standardUncertainty },
+    final: { volumeMl: flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty },
+    rounding,
+  });
+}
+
+/** The newest aliquot that no other aliquot supersedes. */
+export function activeAliquot(rows: DilutionAliquot[]): DilutionAliquot | undefined {
+  const superseded = new Set(rows.map((a) => a.supersedesId).filter((x): x is number => x !== null));
+  return rows.filter((a) => !superseded.has(a.id)).at(-1);
+}
+
+/** A dilution's result from its stored aliquot and latest make-up (null until both exist). */
+export async function dilutionResultOf(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction?: Transaction): Promise<DilutionSection['result'] | null> {
+  const t = transaction ? { transaction } : {};
+  const [link, aliquots, makeUp] = await Promise.all([
+    PreparationParent.findOne({ where: { preparationId: p.id, role: 'aliquot' }, ...t }),
+    DilutionAliquot.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], ...t }),
+    MakeUp.findOne({ where: { preparationId: p.id }, order: [['id', 'DESC']], ...t }),
+  ]);
+  const a = activeAliquot(aliquots);
+  if (!link || !a || !makeUp || !link.snapshot.concentration) return null;
+  const r = dilutionOf(link.snapshot, a.volumeMl, a.pipetteSnapshot, makeUp.flaskSnapshot, settings.roundingRule);
+  return { ...r, calcVersion: DILUTION_CALC_VERSION, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
+}
+
+/** The concentration of a preparation as a parent: a stock's stored result, a dilution's recomputed result. */
+export async function concentrationOf(p: Preparation, kind: PreparationKind, settings: Pick<LabSettings, 'roundingRule'>): Promise<ParentSnapshot['concentration'] | null> {
+  if (isDilutionKind(kind)) {
+    const r = await dilutionResultOf(p, settings);
+    return r ? { value: r.value, unit: r.unit, standardUncertainty: r.standardUncertainty, display: r.display } : null;
+  }
+  const c = p.result?.concentration;
+  return c ? { value: c.value, unit: c.unit, standardUncertainty: c.standardUncertainty, display: c.display } : null;
+}
+
+/**
+ * Expiry of any preparation: preparedOn + the applicable stability rule (basis recorded), capped by the
+ * reference material's expiry and every parent's expiry at use. Stocks without rules keep the lab default.
+ */
+export async function lineageExpiry(p: Preparation, settings: LabSettings, preparedOn: string, transaction?: Transaction): Promise<ExpiryResult> {
+  const { kind } = await lineageRow(p.id, transaction);
+  const parents = await PreparationParent.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], ...(transaction ? { transaction } : {}) });
+  return expiryFor({ kind, analyteFormula: p.analyteFormula, target: { value: p.targetValue, unit: p.targetUnit }, material: p.snapshotMaterial, parents: parents.map((x) => x.snapshot) }, settings, preparedOn);
+}
+
+export function expiryFor(
+  s: { kind: PreparationKind; analyteFormula: string; target: { value: string; unit: string }; material: { name: string; lot: string; expiresOn?: string | null }; parents: Array<Pick<ParentSnapshot, 'identifier' | 'expiresOn'>> },
+  settings: LabSettings,
+  preparedOn: string,
+): ExpiryResult {
+  const rule = selectStabilityRule(settings.stabilityRules, { kind: s.kind, analyteFormula: s.analyteFormula, concentration: s.target }, {
+    days: settings.defaultStabilityDays ?? DEFAULT_STABILITY_DAYS,
+    basis: settings.defaultStabilityBasis ?? DEFAULT_STABILITY_BASIS,
+  });
+  // stocks with no rules: exactly the basis text the plan has always stored
+  const basis = rule.ruleId === undefined && !settings.stabilityRules?.length ? (settings.defaultStabilityBasis ?? DEFAULT_STABILITY_BASIS) : rule.basis;
+  return computeExpiry({
+    preparedOn,
+    stabilityDays: rule.days,
+    stabilityBasis: basis,
+    ...(s.material.expiresOn ? { materialExpiresOn: s.material.expiresOn } : {}),
+    materialIdentifier: `${s.material.name} lot ${s.material.lot}`,
+    parents: s.parents.map((x) => ({ identifier: x.identifier, expiresOn: x.expiresOn })),
+  });
+}
+
+/** 409 for a weighing on a volumetric dilution: it has an aliquot and a make-up, nothing to weigh. */
+export async function assertWeighable(p: Preparation): Promise<void> {
+  const { kind } = await lineageRow(p.id);
+  if (isDilutionKind(kind)) {
+    throw new AppError('not_weighable', 409, `${p.identifier} is a volumetric dilution: record the aliquot (POST /api/preparations/${p.identifier}/aliquots) and the make-up; there is nothing to weigh`);
+  }
+}
+
+function aliquotDto(a: DilutionAliquot, supersededBy: Map<number, number>, users: Map<number, User>): Aliquot {
+  const dto: Aliquot = {
+    id: a.id,
+    pipette: { id: a.pipetteId, identifier: a.pipetteIdentifier, snapshot: a.pipetteSnapshot },
+    volumeMl: a.volumeMl,
+    recordedBy: { id: a.recordedBy, fullName: users.get(a.recordedBy)?.fullName ?? `user ${a.recordedBy}` },
+    recordedAt: a.recordedAt,
+  };
+  if (a.supersedesId !== null) dto.supersedesId = a.supersedesId;
+  const by = supersededBy.get(a.id);
+  if (by !== undefined) dto.supersededById = by;
+  if (a.correctionReason) dto.correctionReason = a.correctionReason;
+  return dto;
+}
+
+/** The lineage section of GET /api/preparations/:key. */
+export async function lineageSection(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>): Promise<LineageSection> {
+  const { kind, seriesId } = await lineageRow(p.id);
+  const childLinks = await PreparationParent.findAll({ where: { parentPreparationId: p.id }, order: [['id', 'ASC']] });
+  const childRows = childLinks.length ? await Preparation.findAll({ where: { id: childLinks.map((c) => c.preparationId) }, order: [['id', 'ASC']] }) : [];
+  const children = await Promise.all(childRows.map(async (c) => ({ id: c.id, identifier: c.identifier, kind: (await lineageRow(c.id)).kind, status: c.status })));
+  const section: LineageSection = { kind, children };
+  if (!isDilutionKind(kind)) return section;
+  const link = await PreparationParent.findOne({ where: { preparationId: p.id, role: 'aliquot' } });
+  if (!link) return section;
+  const planEarly = p.plan as unknown as { dilution?: unknown };
+  if (!planEarly.dilution) return section;
+  const aliquots = await DilutionAliquot.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] });
+  const users = new Map((await User.findAll({ where: { id: [...new Set(aliquots.map((a) => a.recordedBy))] } })).map((u) => [u.id, u]));
+  const supersededBy = new Map<number, number>();
+  for (const a of aliquots) if (a.supersedesId !== null) supersededBy.set(a.supersedesId, a.id);
+  const plan = p.plan as unknown as { dilution?: { pipette: WareDto; aliquotMl: string; finalMl: string; planned: DilutionResult } };
+  // a row linked to a parent without a stored dilution plan (e.g. recorded by another path) has no dilution section
+  if (!plan.dilution) return section;
+  const dilution: DilutionSection = {
+    method: 'volumetric',
+    parent: { id: link.parentPreparationId, identifier: link.snapshot.identifier, snapshot: link.snapshot },
+    plannedAliquot: { pipette: { id: plan.dilution.pipette.id, identifier: plan.dilution.pipette.identifier, snapshot: plan.dilution.pipette }, volumeMl: plan.dilution.aliquotMl },
+    plannedFinalMl: plan.dilution.finalMl,
+    planned: plan.dilution.planned,
+    aliquots: aliquots.map((a) => aliquotDto(a, supersededBy, users)),
+  };
+  const result = await dilutionResultOf(p, settings);
+  if (result) dilution.result = result;
+  if (seriesId !== null) {
+    const s = await Series.findByPk(seriesId);
+    if (s) dilution.series = { id: s.id, identifier: s.identifier };
+  }
+  return { ...section, dilution };
+}
