@@ -95,6 +95,11 @@ describe('POST /api/preparations/:key/dilutions', () => {
     // the parent's forward trace lists the child (TR-04)
     const p = await send('qa', 'get', `/api/preparations/${parent.identifier}`);
     expect(p.body.children.map((c: { identifier: string }) => c.identifier)).toContain(d.identifier);
+    // and the QA trace labels the child as a dilution, not as a stock solution
+    const trace = await send('qa', 'get', `/api/trace/${parent.identifier}`);
+    expect(trace.status, JSON.stringify(trace.body)).toBe(200);
+    const node = trace.body.forward.nodes.find((n: { detail?: { identifier?: string } }) => n.detail?.identifier === d.identifier);
+    expect(node?.detail?.kind).toBe('dilution');
   });
 
   it('at the bench: the aliquot (pipette confirmed) and the make-up give the result; a weighing is refused 409', async () => {

@@ -49,6 +49,8 @@ export class Preparation extends Model<InferAttributes<Preparation>, InferCreati
   declare expiresOn: string;
   declare expiryReason: string;
   declare createdOn: string;
+  /** stock | dilution | series_level | mix (migration 0008; written by the lineage service). */
+  declare kind: CreationOptional<string>;
   declare createdBy: number;
   declare createdAt: string;
   declare updatedAt: string;
@@ -114,6 +116,7 @@ export function initPreparations(sequelize: Sequelize) {
       expiresOn: requiredText(),
       expiryReason: requiredText(),
       createdOn: requiredText(),
+      kind: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'stock' },
       createdBy: { type: DataTypes.INTEGER, allowNull: false },
       createdAt: requiredText(),
       updatedAt: requiredText(),
