@@ -24,6 +24,11 @@
  *       solventId, solventLot, solventSnapshot, solutionTemperatureC, applyTemperatureCorrection,
  *       correctionReason, supersedesId, recordedBy, recordedAt },
  *     result, expiresOn, expiryReason }
+ * and, for a dilution or series level only (stocks hash exactly the fields above, so their hashes are unchanged):
+ *     aliquots: every aliquot record (superseded ones too), oldest first, each { id, pipetteId, pipetteIdentifier,
+ *       pipetteSnapshot, volumeMl, supersedesId, correctionReason, recordedBy, recordedAt },
+ *     dilutionResult: the dilution result recomputed from the current aliquot and make-up (lineage-view), or null
+ * A dilution is complete for "prepared" with a current aliquot, a make-up and a dilution result (no weighing).
  * Status, status history and the signatures themselves are not part of it (signing does not change the record).
  */
 import { createHash } from 'node:crypto';
@@ -42,6 +47,7 @@ import {
 } from '../../shared/schemas/preparations.ts';
 import type { Role } from '../../shared/schemas/roles.ts';
 import {
+  DilutionAliquot,
   MakeUp,
   Preparation,
   PreparationEvent,
@@ -59,6 +65,8 @@ import { returnedMail, verificationRequestedMail, verifiedMail, type RecordRef }
 import { recordAudit } from './audit.service.ts';
 import { nextStatus, invalidTransition, transition, dataEntryMode, type StatusEvent } from './preparation-status.ts';
 import { verifyPassword } from './passwords.ts';
+import { activeAliquot, dilutionResultOf, isDilutionKind, lineageRow } from './lineage-view.ts';
+import { getSettings } from './settings.service.ts';
 
 export interface Signer {
   id: number;
@@ -101,8 +109,14 @@ const ROLE_TEXT: Record<SignatureInput['meaning'], string> = {
 export const sha256 = (text: string) => createHash('sha256').update(text, 'utf8').digest('hex');
 
 /** The object whose canonical JSON is hashed (fields listed in the header comment). */
-export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[]): Record<string, unknown> {
-  return {
+/** A dilution's own data entries: its aliquot records and its recomputed result (absent for stocks). */
+export interface DilutionEntries {
+  aliquots: DilutionAliquot[];
+  result: unknown | null;
+}
+
+export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): Record<string, unknown> {
+  const base: Record<string, unknown> = {
     preparationId: p.id,
     identifier: p.identifier,
     version: p.version,
@@ -151,27 +165,53 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
     expiresOn: p.expiresOn,
     expiryReason: p.expiryReason,
   };
+  if (!dilution) return base;
+  return {
+    ...base,
+    aliquots: dilution.aliquots.map((a) => ({
+      id: a.id,
+      pipetteId: a.pipetteId,
+      pipetteIdentifier: a.pipetteIdentifier,
+      pipetteSnapshot: a.pipetteSnapshot,
+      volumeMl: a.volumeMl,
+      supersedesId: a.supersedesId,
+      correctionReason: a.correctionReason,
+      recordedBy: a.recordedBy,
+      recordedAt: a.recordedAt,
+    })),
+    dilutionResult: dilution.result ?? null,
+  };
 }
 
-export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: MakeUp[]): { canonical: string; hash: string } {
-  const canonical = canonicalJson(recordForHash(p, weighings, makeUps));
+export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): { canonical: string; hash: string } {
+  const canonical = canonicalJson(recordForHash(p, weighings, makeUps, dilution));
   return { canonical, hash: sha256(canonical) };
 }
 
-async function entriesOf(preparationId: number, transaction?: Transaction) {
-  const [weighings, makeUps] = await Promise.all([
-    Weighing.findAll({ where: { preparationId }, order: [['id', 'ASC']], transaction }),
-    MakeUp.findAll({ where: { preparationId }, order: [['id', 'ASC']], transaction }),
+/** For a dilution (or series level): its aliquot records and recomputed result; null for a stock. */
+export async function dilutionEntriesOf(p: Preparation, transaction?: Transaction): Promise<DilutionEntries | null> {
+  const { kind } = await lineageRow(p.id, transaction);
+  if (!isDilutionKind(kind)) return null;
+  const [aliquots, settings] = await Promise.all([DilutionAliquot.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction }), getSettings(transaction)]);
+  const result = await dilutionResultOf(p, settings, transaction);
+  return { aliquots, result: result ?? null };
+}
+
+async function entriesOf(p: Preparation, transaction?: Transaction) {
+  const [weighings, makeUps, dilution] = await Promise.all([
+    Weighing.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction }),
+    MakeUp.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction }),
+    dilutionEntriesOf(p, transaction),
   ]);
-  return { weighings, makeUps };
+  return { weighings, makeUps, dilution };
 }
 
 /** The canonical JSON and hash of the record as it is now. */
 export async function currentRecordHash(preparationId: number, transaction?: Transaction): Promise<{ canonical: string; hash: string; version: number }> {
   const p = await Preparation.findByPk(preparationId, { transaction });
   if (!p) throw AppError.notFound(`Preparation ${preparationId}`);
-  const { weighings, makeUps } = await entriesOf(p.id, transaction);
-  return { ...canonicalRecord(p, weighings, makeUps), version: p.version };
+  const { weighings, makeUps, dilution } = await entriesOf(p, transaction);
+  return { ...canonicalRecord(p, weighings, makeUps, dilution), version: p.version };
 }
 
 async function storeVersion(p: Preparation, canonical: string, hash: string, at: string, transaction: Transaction) {
@@ -219,6 +259,8 @@ interface State {
   p: Preparation;
   weighings: Weighing[];
   makeUps: MakeUp[];
+  /** set for a dilution or series level; null for a stock */
+  dilution: DilutionEntries | null;
   sigs: Signature[];
   hash: string;
 }
@@ -246,14 +288,22 @@ export function excludedVerifiers(st: State): Map<number, string> {
   add(st.p.createdBy, 'you planned this record');
   const w = activeWeighing(st.weighings);
   if (w) add(w.recordedBy, 'you recorded the weighing in this version');
+  const a = st.dilution ? activeAliquot(st.dilution.aliquots) : undefined;
+  if (a) add(a.recordedBy, 'you recorded the aliquot in this version');
   const m = st.makeUps.at(-1);
   if (m) add(m.recordedBy, 'you recorded the make-up in this version');
   const since = lastAmend?.signedAt ?? '';
-  for (const e of [...st.weighings, ...st.makeUps]) if (e.recordedAt >= since) add(e.recordedBy, 'you entered or changed data in this version');
+  for (const e of [...st.weighings, ...(st.dilution?.aliquots ?? []), ...st.makeUps]) if (e.recordedAt >= since) add(e.recordedBy, 'you entered or changed data in this version');
   return out;
 }
 
 function completeness(st: State): string | null {
+  if (st.dilution) {
+    if (!activeAliquot(st.dilution.aliquots)) return 'record the aliquot first';
+    if (!st.makeUps.length) return 'record the make-up first';
+    if (!st.dilution.result) return 'the dilution result has not been computed';
+    return null;
+  }
   if (!activeWeighing(st.weighings)) return 'record the weighing first';
   if (!st.makeUps.length) return 'record the make-up first';
   if (!st.p.result) return 'the result has not been computed';
@@ -277,8 +327,8 @@ function refusal(st: State, meaning: SignatureInput['meaning'], user: { id: numb
 }
 
 async function loadState(p: Preparation, transaction?: Transaction): Promise<State> {
-  const [{ weighings, makeUps }, sigs] = await Promise.all([entriesOf(p.id, transaction), Signature.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction })]);
-  return { p, weighings, makeUps, sigs, hash: canonicalRecord(p, weighings, makeUps).hash };
+  const [{ weighings, makeUps, dilution }, sigs] = await Promise.all([entriesOf(p, transaction), Signature.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction })]);
+  return { p, weighings, makeUps, dilution, sigs, hash: canonicalRecord(p, weighings, makeUps, dilution).hash };
 }
 
 function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash'>): SignatureDto {
@@ -301,13 +351,14 @@ type SignatureView = Pick<PreparationDetail, 'signatures' | 'verificationCheckli
 
 /** The signature fields of PreparationDetail, with canSign for the viewing user (none: all false). */
 export async function signatureView(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], viewerId?: number): Promise<SignatureView> {
-  const [sigs, flag, viewer, ack] = await Promise.all([
+  const [sigs, flag, viewer, ack, dilution] = await Promise.all([
     Signature.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
     ReviewFlag.findOne({ where: { preparationId: p.id }, order: [['id', 'DESC']] }),
     viewerId ? User.findByPk(viewerId) : Promise.resolve(null),
     viewerId ? SignatureAcknowledgement.findByPk(viewerId) : Promise.resolve(null),
+    dilutionEntriesOf(p),
   ]);
-  const st: State = { p, weighings, makeUps, sigs, hash: canonicalRecord(p, weighings, makeUps).hash };
+  const st: State = { p, weighings, makeUps, dilution, sigs, hash: canonicalRecord(p, weighings, makeUps, dilution).hash };
   const canSign: CanSign = { prepare: false, verify: false, return: false, discard: false, reasons: {} };
   const actions = { prepare: 'prepared', verify: 'verified', return: 'returned', discard: 'discarded' } as const;
   for (const [action, meaning] of Object.entries(actions) as Array<[keyof typeof actions, SignatureInput['meaning']]>) {
@@ -441,7 +492,7 @@ export async function sign(key: string, input: SignatureInput, signer: Signer, o
     }
     const from = p.status;
     const to = transition(p.identifier, from, EVENT_OF[input.meaning]);
-    const { canonical, hash } = canonicalRecord(p, fresh.weighings, fresh.makeUps);
+    const { canonical, hash } = canonicalRecord(p, fresh.weighings, fresh.makeUps, fresh.dilution);
     await storeVersion(p, canonical, hash, at, transaction);
     if (!acknowledged) await SignatureAcknowledgement.create({ userId: user.id, statement: SIGNATURE_RESPONSIBILITY_STATEMENT, acknowledgedAt: at }, { transaction });
     await resetFailures(user, transaction);
@@ -533,8 +584,8 @@ export async function recordAmendment(p: Preparation, amendment: PendingAmendmen
   const { user } = amendment;
   const from = p.status;
   const to = transition(p.identifier, from, 'amend');
-  const { weighings, makeUps } = await entriesOf(p.id, transaction);
-  const { canonical, hash } = canonicalRecord(p, weighings, makeUps);
+  const { weighings, makeUps, dilution } = await entriesOf(p, transaction);
+  const { canonical, hash } = canonicalRecord(p, weighings, makeUps, dilution);
   await storeVersion(p, canonical, hash, at, transaction);
   if (amendment.acknowledge) await SignatureAcknowledgement.create({ userId: user.id, statement: SIGNATURE_RESPONSIBILITY_STATEMENT, acknowledgedAt: at }, { transaction });
   await resetFailures(user, transaction);
