@@ -209,7 +209,7 @@ function materialDto(m: ReferenceMaterial, users: Map<number, { id: number; full
   };
 }
 
-async function materialDtos(rows: ReferenceMaterial[], transaction?: Transaction): Promise<MaterialDto[]> {
+export async function materialDtos(rows: ReferenceMaterial[], transaction?: Transaction): Promise<MaterialDto[]> {
   const users = await usersById(
     rows.map((r) => r.acceptedById),
     transaction,
@@ -346,7 +346,7 @@ export async function updateMaterial(id: number, input: MaterialUpdate, actor: A
 
 // -------------------------------------------------------------------------------------------- balances
 
-function balanceDto(b: Balance): BalanceDto {
+export function balanceDto(b: Balance): BalanceDto {
   return {
     id: b.id,
     identifier: b.identifier,
@@ -485,7 +485,7 @@ export async function updateBalance(id: number, input: BalanceUpdate, actor: Act
 
 // -------------------------------------------------------------------------------------- volumetric ware
 
-function wareDto(w: VolumetricWare): WareDto {
+export function wareDto(w: VolumetricWare): WareDto {
   return {
     id: w.id,
     identifier: w.identifier,
@@ -569,7 +569,7 @@ export async function updateVolumetricWare(id: number, input: WareUpdate, actor:
 
 // --------------------------------------------------------------------------------------------- solvents
 
-function solventDto(s: Solvent): SolventDto {
+export function solventDto(s: Solvent): SolventDto {
   return {
     id: s.id,
     name: s.name,
