@@ -42,13 +42,25 @@ export function HomePage() {
             <li key={a}>{a}</li>
           ))}
         </ul>
-        <p className="mt-3 text-sm text-ink-soft">
-          Available now: the preparation calculator{user.role === 'admin' ? ' and user administration' : ''}. The other
-          parts of the record arrive in later releases.
-        </p>
       </section>
 
       <section aria-label="Shortcuts" className="grid gap-4 sm:grid-cols-2 xl:grid-cols-3">
+        <Tile
+          to="/preparations"
+          testId="tile-preparations"
+          title="Preparations"
+          text="Scan or search a standard; open its record, bench view or print page."
+        />
+        {user.role === 'chemist' ? (
+          <Tile to="/preparations/new" testId="tile-plan" title="Plan a standard" text="Reference material, target, flask and balance: the reading to aim for, checked before anyone weighs." />
+        ) : null}
+        {user.role === 'qa' || user.role === 'admin' || user.role === 'chemist' ? (
+          <Tile to="/trace" testId="tile-trace" title="Trace" text="Any identifier back to its lots, balances and glassware, and forward to everything made from it." />
+        ) : null}
+        {user.role === 'qa' || user.role === 'admin' ? (
+          <Tile to="/audit" testId="tile-audit" title="Audit trail" text="Every change, signature, print and sign-in; check the chain; export CSV." />
+        ) : null}
+        <Tile to="/inventory/materials" testId="tile-inventory" title="Inventory" text="Reference materials, balances, volumetric ware and solvents." />
         <Tile
           to="/calculate"
           testId="tile-calculate"
