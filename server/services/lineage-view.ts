@@ -61,8 +61,15 @@ export function activeAliquot(rows: DilutionAliquot[]): DilutionAliquot | undefi
   return rows.filter((a) => !superseded.has(a.id)).at(-1);
 }
 
-/** A dilution's result from its stored aliquot and latest make-up (null until both exist). */
-export async function dilutionResultOf(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction?: Transaction): Promise<DilutionSection['result'] | null> {
+/** A volumetric dilution's result as stored (migration 0011) and shown: the core's answer + calcVersion + basedOn. */
+export type VolumetricDilutionResult = NonNullable<DilutionSection['result']>;
+
+/**
+ * A dilution's result (null until its aliquot and make-up exist). The result stored at the write that made it
+ * (storeDilutionResult) is returned when its basedOn names the current aliquot and make-up, so a later change of
+ * the lab's rounding rule cannot change a signed record; rows without a stored result (legacy) are computed.
+ */
+export async function dilutionResultOf(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction?: Transaction): Promise<VolumetricDilutionResult | null> {
   const t = transaction ? { transaction } : {};
   const [link, aliquots, makeUp] = await Promise.all([
     PreparationParent.findOne({ where: { preparationId: p.id, role: 'aliquot' }, ...t }),
@@ -71,11 +78,31 @@ export async function dilutionResultOf(p: Preparation, settings: Pick<LabSetting
   ]);
   const a = activeAliquot(aliquots);
   if (!link || !a || !makeUp || !link.snapshot.concentration) return null;
+  const stored = p.dilutionResult as VolumetricDilutionResult | null | undefined;
+  if (stored && stored.basedOn && stored.basedOn.aliquotId === a.id && stored.basedOn.makeUpId === makeUp.id) return stored;
   const r = dilutionOf(link.snapshot, a.volumeMl, a.pipetteSnapshot, makeUp.flaskSnapshot, settings.roundingRule);
   return { ...r, calcVersion: DILUTION_CALC_VERSION, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
 }
 
-/** The concentration of a preparation as a parent: a stock's stored result, a dilution's recomputed result. */
+/**
+ * Inside the write transaction of an aliquot or make-up (after the new row is created): compute the dilution's
+ * result from the stored rows and keep it on the record (dilution_result, concentrationDisplay). Does not save;
+ * returns the audit changes. A stock (or a dilution still missing its aliquot or make-up) is left as it is.
+ */
+export async function storeDilutionResult(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction: Transaction): Promise<Array<{ field: string; oldValue: unknown; newValue: unknown }>> {
+  const { kind } = await lineageRow(p.id, transaction);
+  if (!isDilutionKind(kind)) return [];
+  const result = await dilutionResultOf(p, settings, transaction);
+  if (!result) return [];
+  const before = p.concentrationDisplay;
+  p.dilutionResult = result as unknown as Record<string, unknown>;
+  p.concentrationDisplay = result.display;
+  const out: Array<{ field: string; oldValue: unknown; newValue: unknown }> = [{ field: 'dilutionResult', oldValue: null, newValue: `${result.display} (${result.calcVersion}; aliquot ${result.basedOn.aliquotId}, make-up ${result.basedOn.makeUpId})` }];
+  if (before !== result.display) out.push({ field: 'concentration', oldValue: before, newValue: result.display });
+  return out;
+}
+
+/** The concentration of a preparation as a parent: a stock's stored result, a dilution's stored (or, legacy, recomputed) result. */
 export async function concentrationOf(p: Preparation, kind: PreparationKind, settings: Pick<LabSettings, 'roundingRule'>): Promise<ParentSnapshot['concentration'] | null> {
   if (isDilutionKind(kind)) {
     const r = await dilutionResultOf(p, settings);

@@ -34,7 +34,7 @@ import { dataEntryMode } from './preparation-status.ts';
 import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
-import { activeAliquot, concentrationOf, dilutionOf, dilutionResultOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty } from './lineage-view.ts';
+import { activeAliquot, concentrationOf, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
 const MAX_TARGET_DEVIATION = new D('0.05');
@@ -311,8 +311,7 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
       { transaction },
     );
     const before = { version: prep.version, concentration: prep.concentrationDisplay };
-    const result = await dilutionResultOf(prep, settings, transaction);
-    if (result) prep.concentrationDisplay = result.display;
+    const stored = await storeDilutionResult(prep, settings, transaction); // the result is kept with the record (migration 0011)
     prep.version = prep.version + 1;
     prep.updatedAt = at;
     await prep.save({ transaction });
@@ -325,6 +324,7 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
         changes: [
           ...diffFields({}, { preparation: prep.identifier, pipette: pipette.identifier, substituted: pipette.identifier !== planned.pipette.identifier, volumeMl, supersedesId: a.supersedesId }),
           ...diffFields(before, { version: prep.version, concentration: prep.concentrationDisplay }).map((c) => ({ ...c, field: `preparation.${c.field}` })),
+          ...stored.filter((c) => c.field === 'dilutionResult').map((c) => ({ ...c, field: `preparation.${c.field}` })),
         ],
         reason: a.correctionReason,
       },

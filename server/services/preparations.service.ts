@@ -38,7 +38,7 @@ import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from
 import { getSettings } from './settings.service.ts';
 import { checkChange, recordAmendment, signatureView } from './signatures.service.ts';
 import { dataEntryMode } from './preparation-status.ts';
-import { assertWeighable, lineageExpiry, lineageSection } from './lineage-view.ts';
+import { assertWeighable, lineageExpiry, lineageSection, storeDilutionResult } from './lineage-view.ts';
 
 export interface Actor {
   id: number;
@@ -753,6 +753,11 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
       { transaction },
     );
     const resultChanges = await storeRecomputation(prep, settings, at, transaction, { expiresOn: expiry.expiresOn, expiryReason: expiry.reason });
+    const dilutionChanges = await storeDilutionResult(prep, settings, transaction); // a dilution's result is kept with the record (migration 0011); [] for a stock
+    if (dilutionChanges.length) {
+      await prep.save({ transaction });
+      resultChanges.push(...dilutionChanges);
+    }
     await recordAudit(
       {
         actor,

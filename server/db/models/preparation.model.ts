@@ -51,6 +51,8 @@ export class Preparation extends Model<InferAttributes<Preparation>, InferCreati
   declare createdOn: string;
   /** stock | dilution | series_level | mix (migration 0008; written by the lineage service). */
   declare kind: CreationOptional<string>;
+  /** a dilution's stored result with its calcVersion and basedOn (migration 0011; written by lineage-view storeDilutionResult) */
+  declare dilutionResult: CreationOptional<Record<string, unknown> | null>;
   declare createdBy: number;
   declare createdAt: string;
   declare updatedAt: string;
@@ -117,6 +119,7 @@ export function initPreparations(sequelize: Sequelize) {
       expiryReason: requiredText(),
       createdOn: requiredText(),
       kind: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'stock' },
+      dilutionResult: nullableJson<Record<string, unknown>>('dilutionResult'),
       createdBy: { type: DataTypes.INTEGER, allowNull: false },
       createdAt: requiredText(),
       updatedAt: requiredText(),
