@@ -91,6 +91,7 @@ export async function dilutionResultOf(p: Preparation, settings: Pick<LabSetting
  */
 export async function storeDilutionResult(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction: Transaction): Promise<Array<{ field: string; oldValue: unknown; newValue: unknown }>> {
   const { kind } = await lineageRow(p.id, transaction);
+  if (kind === 'mix') return (await import('./mix-view.ts')).storeMixResults(p, settings, transaction); // every component's result
   if (!isDilutionKind(kind)) return [];
   const result = await dilutionResultOf(p, settings, transaction);
   if (!result) return [];
@@ -146,6 +147,7 @@ export function expiryFor(
 /** 409 for a weighing on a volumetric dilution: it has an aliquot and a make-up, nothing to weigh. */
 export async function assertWeighable(p: Preparation): Promise<void> {
   const { kind } = await lineageRow(p.id);
+  if (kind === 'mix') throw new AppError('not_weighable', 409, `${p.identifier} is a mix: record each component's aliquot (POST /api/preparations/${p.identifier}/aliquots with its componentId) and the make-up; there is nothing to weigh`);
   if (isDilutionKind(kind)) {
     throw new AppError('not_weighable', 409, `${p.identifier} is a volumetric dilution: record the aliquot (POST /api/preparations/${p.identifier}/aliquots) and the make-up; there is nothing to weigh`);
   }
@@ -173,6 +175,10 @@ export async function lineageSection(p: Preparation, settings: Pick<LabSettings,
   const childRows = childLinks.length ? await Preparation.findAll({ where: { id: childLinks.map((c) => c.preparationId) }, order: [['id', 'ASC']] }) : [];
   const children = await Promise.all(childRows.map(async (c) => ({ id: c.id, identifier: c.identifier, kind: (await lineageRow(c.id)).kind, status: c.status })));
   const section: LineageSection = { kind, children };
+  if (kind === 'mix') {
+    const mix = await (await import('./mix-view.ts')).mixSection(p, settings);
+    return mix ? { ...section, mix } : section;
+  }
   if (!isDilutionKind(kind)) return section;
   const link = await PreparationParent.findOne({ where: { preparationId: p.id, role: 'aliquot' } });
   if (!link) return section;

@@ -41,7 +41,7 @@ const MAX_TARGET_DEVIATION = new D('0.05');
 
 // ------------------------------------------------------------------ parents
 
-async function findPreparationRow(key: string, field?: string): Promise<Preparation> {
+export async function findPreparationRow(key: string, field?: string): Promise<Preparation> {
   let p: Preparation | null = null;
   if (/^[1-9]\d{0,15}$/.test(key)) p = await Preparation.findByPk(Number(key));
   else if (parsePreparationId(key)) p = await Preparation.findOne({ where: { identifier: key } });
@@ -56,11 +56,12 @@ async function findPreparationRow(key: string, field?: string): Promise<Preparat
  * TR-11: only a verified, in-date parent with a result can be used. A refusal is audited ("attempt logged")
  * and answered 422 parent_not_usable with a message naming the parent's state or expiry.
  */
-async function usableParent(p: Preparation, actor: Actor, settings: LabSettings, today: string, field: string): Promise<ParentSnapshot> {
+export async function usableParent(p: Preparation, actor: Actor, settings: LabSettings, today: string, field: string): Promise<ParentSnapshot> {
   const { kind } = await lineageRow(p.id);
   let why: string | null = null;
   if (p.expiresOn < today) why = `${p.identifier} expired on ${p.expiresOn} and cannot be used as a parent`;
   else if (p.status !== 'verified') why = `${p.identifier} is '${p.status}', not verified: only verified, in-date standards can be used as a parent`;
+  else if (kind === 'mix') why = `${p.identifier} is a mix of several analytes: a mix cannot be used as a parent yet (a dilution takes one analyte's concentration)`;
   const concentration = why ? null : await concentrationOf(p, kind, settings);
   if (!why && !concentration) why = `${p.identifier} has no recomputed concentration, so it cannot be used as a parent`;
   if (why) {
@@ -74,7 +75,7 @@ async function usableParent(p: Preparation, actor: Actor, settings: LabSettings,
 
 // ------------------------------------------------------------------ ware
 
-async function pipetteFor(id: number, field: string): Promise<WareDto> {
+export async function pipetteFor(id: number, field: string): Promise<WareDto> {
   const w = await VolumetricWare.findByPk(id);
   if (!w) throw AppError.validation(`No volumetric ware with id ${id} is registered`, { [field]: `No volumetric ware with id ${id} is registered` });
   const p = wareSnapshot(w);
@@ -84,7 +85,7 @@ async function pipetteFor(id: number, field: string): Promise<WareDto> {
   return p;
 }
 
-async function flaskFor(id: number, field: string): Promise<WareDto> {
+export async function flaskFor(id: number, field: string): Promise<WareDto> {
   const w = await VolumetricWare.findByPk(id);
   if (!w) throw AppError.validation(`No volumetric ware with id ${id} is registered`, { [field]: `No volumetric ware with id ${id} is registered` });
   const f = wareSnapshot(w);
@@ -95,7 +96,7 @@ async function flaskFor(id: number, field: string): Promise<WareDto> {
 }
 
 /** Bulb pipettes deliver their nominal volume; piston pipettes are set from 10 % of nominal to nominal (common practice). */
-function aliquotVolume(p: WareDto, typed: string | undefined, field: string): string {
+export function aliquotVolume(p: WareDto, typed: string | undefined, field: string): string {
   if (p.kind === 'bulb_pipette') {
     if (typed !== undefined && !new D(typed).eq(p.nominalVolumeMl)) throw AppError.validation(`${p.identifier} delivers ${p.nominalVolumeMl} mL`, { [field]: `${p.identifier} is a bulb pipette and delivers ${p.nominalVolumeMl} mL only` });
     return p.nominalVolumeMl;
@@ -142,7 +143,7 @@ async function planLevel(parent: ParentSnapshot, level: { target: { value: strin
   return { target: level.target, pipette, flask, aliquotMl, planned };
 }
 
-async function nextSequence(prefix: string, year: number, transaction: Transaction): Promise<number> {
+export async function nextSequence(prefix: string, year: number, transaction: Transaction): Promise<number> {
   const sequelize = Preparation.sequelize!;
   await sequelize.query(
     `INSERT INTO preparation_sequences (prefix, year, last_seq) VALUES (:prefix, :year, 1)
@@ -264,6 +265,8 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
   const now = opts.now ?? new Date();
   const prep = await findPreparationRow(key);
   const { kind } = await lineageRow(prep.id);
+  if (kind === 'mix') return (await import('./mix.service.ts')).recordMixAliquot(prep, input, actor, opts); // one aliquot per component
+  if (input.componentId !== undefined) throw AppError.validation(`${prep.identifier} is not a mix`, { componentId: `${prep.identifier} is not a mix: send no componentId` });
   if (!isDilutionKind(kind)) throw new AppError('not_a_dilution', 409, `${prep.identifier} is a ${kind}, not a dilution: record a weighing instead`);
   dataEntryMode(prep.identifier, prep.status); // 409 when expired or discarded
   if (prep.status !== 'planned') {

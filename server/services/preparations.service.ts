@@ -28,7 +28,7 @@ import type {
   WeighingInput,
 } from '../../shared/schemas/preparations.ts';
 import { DEFAULT_STABILITY_BASIS, DEFAULT_STABILITY_DAYS, type LabSettings } from '../../shared/schemas/settings.ts';
-import { Balance, MakeUp, Preparation, PreparationEvent, ReferenceMaterial, Solvent, User, VolumetricWare, Weighing } from '../db/models/index.ts';
+import { Balance, DilutionAliquot, MakeUp, Preparation, PreparationEvent, ReferenceMaterial, Solvent, User, VolumetricWare, Weighing } from '../db/models/index.ts';
 import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
@@ -405,17 +405,18 @@ function activeWeighing(weighings: Weighing[]): Weighing | undefined {
 }
 
 async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationDetail> {
-  const [weighings, makeUps, events] = await Promise.all([
+  const [weighings, makeUps, events, aliquotCount] = await Promise.all([
     Weighing.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
     MakeUp.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
     PreparationEvent.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
+    DilutionAliquot.count({ where: { preparationId: p.id } }), // a dilution's measured step is its aliquot (no weighing)
   ]);
   const users = await usersById([p.createdBy, ...weighings.map((w) => w.recordedBy), ...makeUps.map((m) => m.recordedBy), ...events.map((e) => e.byId)]);
   const supersededBy = new Map<number, number>();
   for (const w of weighings) if (w.supersedesId !== null) supersededBy.set(w.supersedesId, w.id);
   const latestMakeUp = makeUps.at(-1);
   const detail: PreparationDetail = {
-    ...summaryOf(p, users, stageOf(weighings.length > 0, makeUps.length > 0)),
+    ...summaryOf(p, users, stageOf(weighings.length > 0 || aliquotCount > 0, makeUps.length > 0)),
     version: p.version,
     inputs: p.inputs,
     conditionsUsed: p.conditionsUsed,
@@ -478,13 +479,14 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
     offset: (q.page - 1) * q.pageSize,
   });
   const ids = rows.map((r) => r.id);
-  const [ws, ms] = ids.length
+  const [ws, ms, as] = ids.length
     ? await Promise.all([
         Weighing.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
         MakeUp.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
+        DilutionAliquot.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
       ])
-    : [[], []];
-  const weighed = new Set(ws.map((w) => w.preparationId));
+    : [[], [], []];
+  const weighed = new Set([...ws, ...as].map((w) => w.preparationId)); // a dilution's aliquot stands for the weighing
   const madeUp = new Set(ms.map((m) => m.preparationId));
   const users = await usersById(rows.map((r) => r.createdBy));
   return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)))), total: count, page: q.page, pageSize: q.pageSize };

@@ -86,10 +86,16 @@ export async function prepSheetPdf(key: string, actor: Actor): Promise<{ pdf: Bu
 
 // ------------------------------------------------------------------ labels
 
+/** The concentration that counts: a stock's result, or a dilution's result from its aliquot and make-up (lineage section). */
+function recordConcentration(d: PreparationDetail): { value: string; unit: string; display: string } | null {
+  if (d.result) return d.result.concentration;
+  return (d as PreparationDetail & { dilution?: { result?: { value: string; unit: string; display: string } } }).dilution?.result ?? null;
+}
+
 /** "1001.0 ± 2.7 mg/L (k = 2)" → "1001.0 mg/L" (the value as displayed, with its unit). */
 function shortConcentration(d: PreparationDetail): string {
-  if (!d.result) return `${d.target.value} ${d.target.unit} (planned)`;
-  const c = d.result.concentration;
+  const c = recordConcentration(d);
+  if (!c) return `${d.target.value} ${d.target.unit} (planned)`;
   const m = /^\s*([^\s±]+)\s*±/.exec(c.display);
   return `${m ? m[1] : c.value} ${c.unit}`;
 }
@@ -112,7 +118,7 @@ export async function labelSnapshotOf(d: PreparationDetail, timeZone: string): P
     status: d.status,
     materialName: d.materialName,
     analyteFormula: d.analyteFormula,
-    concentration: d.result ? d.result.concentration.display : `${d.target.value} ${d.target.unit} (planned; not yet made up)`,
+    concentration: recordConcentration(d)?.display ?? `${d.target.value} ${d.target.unit} (planned; not yet made up)`,
     concentrationShort: shortConcentration(d),
     solvent: d.makeUp ? d.makeUp.solvent.name : null,
     preparedOn: labDay(preparedAt, timeZone),

@@ -28,6 +28,9 @@
  *     aliquots: every aliquot record (superseded ones too), oldest first, each { id, pipetteId, pipetteIdentifier,
  *       pipetteSnapshot, volumeMl, supersedesId, correctionReason, recordedBy, recordedAt },
  *     dilutionResult: the dilution result recomputed from the current aliquot and make-up (lineage-view), or null
+ * and, for a mix only (mix-view.ts mixHashFields): aliquots as above plus componentId (the preparation_parents id),
+ *     mixResults: every component's result ({ linkId, analyteFormula, …result, basedOn }), or null until all exist;
+ *     a mix is complete for "prepared" with a current aliquot for every component, a make-up and the results.
  * A dilution is complete for "prepared" with a current aliquot, a make-up and a dilution result (no weighing).
  * Status, status history and the signatures themselves are not part of it (signing does not change the record).
  */
@@ -66,6 +69,7 @@ import { recordAudit } from './audit.service.ts';
 import { nextStatus, invalidTransition, transition, dataEntryMode, type StatusEvent } from './preparation-status.ts';
 import { verifyPassword } from './passwords.ts';
 import { activeAliquot, dilutionResultOf, isDilutionKind, lineageRow } from './lineage-view.ts';
+import { mixCompleteness, mixEntriesOf, mixHashFields, type MixEntries } from './mix-view.ts';
 import { getSettings } from './settings.service.ts';
 
 export interface Signer {
@@ -113,6 +117,8 @@ export const sha256 = (text: string) => createHash('sha256').update(text, 'utf8'
 export interface DilutionEntries {
   aliquots: DilutionAliquot[];
   result: unknown | null;
+  /** set for a mix only (mix-view.ts): its components' current aliquots and results */
+  mix?: MixEntries;
 }
 
 export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): Record<string, unknown> {
@@ -166,6 +172,7 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
     expiryReason: p.expiryReason,
   };
   if (!dilution) return base;
+  if (dilution.mix) return { ...base, ...mixHashFields(dilution.mix) }; // a mix: aliquots with their component, every component's result
   return {
     ...base,
     aliquots: dilution.aliquots.map((a) => ({
@@ -191,6 +198,10 @@ export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: 
 /** For a dilution (or series level): its aliquot records and recomputed result; null for a stock. */
 export async function dilutionEntriesOf(p: Preparation, transaction?: Transaction): Promise<DilutionEntries | null> {
   const { kind } = await lineageRow(p.id, transaction);
+  if (kind === 'mix') {
+    const mix = await mixEntriesOf(p, await getSettings(transaction), transaction);
+    return mix ? { aliquots: mix.aliquots, result: mix.results, mix } : null;
+  }
   if (!isDilutionKind(kind)) return null;
   const [aliquots, settings] = await Promise.all([DilutionAliquot.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction }), getSettings(transaction)]);
   const result = await dilutionResultOf(p, settings, transaction);
@@ -290,6 +301,7 @@ export function excludedVerifiers(st: State): Map<number, string> {
   if (w) add(w.recordedBy, 'you recorded the weighing in this version');
   const a = st.dilution ? activeAliquot(st.dilution.aliquots) : undefined;
   if (a) add(a.recordedBy, 'you recorded the aliquot in this version');
+  for (const c of st.dilution?.mix?.current ?? []) add(c.recordedBy, "you recorded a component's aliquot in this version");
   const m = st.makeUps.at(-1);
   if (m) add(m.recordedBy, 'you recorded the make-up in this version');
   const since = lastAmend?.signedAt ?? '';
@@ -298,6 +310,7 @@ export function excludedVerifiers(st: State): Map<number, string> {
 }
 
 function completeness(st: State): string | null {
+  if (st.dilution?.mix) return mixCompleteness(st.dilution.mix, st.makeUps.length > 0);
   if (st.dilution) {
     if (!activeAliquot(st.dilution.aliquots)) return 'record the aliquot first';
     if (!st.makeUps.length) return 'record the make-up first';

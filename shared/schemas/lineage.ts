@@ -79,8 +79,22 @@ export const aliquotInputSchema = z.object({
   volumeMl: positiveDecimal('the delivered volume').optional(),
   supersedesId: id('the aliquot to correct').optional(),
   correctionReason: reason('the reason for the correction').optional(),
+  /** a mix only: which component (the preparation_parents id, MixComponent.linkId) this aliquot is for */
+  componentId: id('the component').optional(),
 });
 export type AliquotInput = z.output<typeof aliquotInputSchema>;
+
+/** Body of POST /api/mixes: 2 to 10 verified parents (distinct analytes), each pipetted into one flask. */
+export const mixInputSchema = z.object({
+  components: z
+    .array(z.object({ parentKey, pipetteId: id('a pipette'), aliquotMl: positiveDecimal('the aliquot volume').optional() }), { error: 'Give the components' })
+    .min(2, 'A mix needs at least two components')
+    .max(10, 'Use at most 10 components'),
+  flaskId: id('a volumetric flask'),
+  solventId: id('the solvent').optional(),
+  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+});
+export type MixInput = z.output<typeof mixInputSchema>;
 
 // ---------------------------------------------------------------- DTOs
 
@@ -120,10 +134,30 @@ export interface DilutionSection {
   series?: { id: number; identifier: string };
 }
 
+/** One analyte of a mix: its parent, its planned aliquot, the aliquots delivered and its own concentration and budget. */
+export interface MixComponent {
+  /** the preparation_parents id: send it as componentId when recording this component's aliquot */
+  linkId: number;
+  parent: { id: number; identifier: string; snapshot: ParentSnapshot };
+  analyteFormula: string;
+  plannedAliquot: { pipette: { id: number; identifier: string; snapshot: VolumetricWare }; volumeMl: string };
+  aliquots: Aliquot[];
+  /** c_i = c_parent,i·V_aliquot,i/V_flask with the planned ware (METROLOGY §5.5) */
+  planned: DilutionResult;
+  /** recomputed from this component's current aliquot and the make-up; absent until both are recorded */
+  result?: DilutionResult & { calcVersion: string; basedOn: { aliquotId: number; makeUpId: number } };
+}
+
+export interface MixSection {
+  plannedFinalMl: string;
+  components: MixComponent[];
+}
+
 /** What the detail of any preparation carries about its lineage (stocks: kind only, plus children). */
 export interface LineageSection {
   kind: PreparationKind;
   dilution?: DilutionSection;
+  mix?: MixSection;
   /** preparations made from this one (forward trace, TR-04) */
   children: Array<{ id: number; identifier: string; kind: PreparationKind; status: string }>;
 }

@@ -100,6 +100,7 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/series/proposal': 'lineage.test.ts',
   'POST /api/series': 'lineage.test.ts',
   'GET /api/series/:key': 'lineage.test.ts',
+  'POST /api/mixes': 'mixes.test.ts',
 };
 
 function expected(row: Row, who: Who): number {

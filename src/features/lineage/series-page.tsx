@@ -123,7 +123,14 @@ export function SeriesPage() {
                 <Link to={`/preparations/${encodeURIComponent(c.identifier)}`} className="num font-semibold text-brass-600 underline">
                   {c.identifier}
                 </Link>{' '}
-                — {c.target.value} {c.target.unit}, expires {c.expiresOn}
+                — {c.target.value} {c.target.unit}, expires {c.expiresOn}{' '}
+                <Link
+                  to={`/preparations/${encodeURIComponent(c.identifier)}/bench`}
+                  data-testid={`series-bench-${c.identifier}`}
+                  className="ml-2 inline-flex min-h-12 items-center rounded-lg border-2 border-slate-700 bg-card px-4 font-semibold hover:bg-slate-100"
+                >
+                  Bench
+                </Link>
               </li>
             ))}
           </ul>

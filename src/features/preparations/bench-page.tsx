@@ -14,6 +14,8 @@ import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, formatLabTime } from './format.ts';
 import type { Weighing } from './types.ts';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge } from '../signatures/components/status-badge.tsx';
+import { isDilution } from '../lineage/components/lineage-section.tsx';
+import { DilutionBench } from '../lineage/components/dilution-bench.tsx';
 
 /** The bench view: target and window huge, then record the weighing and the make-up. Glove-sized targets. */
 export function BenchPage() {
@@ -38,6 +40,8 @@ export function BenchPage() {
   const decimals = balanceDecimals(balance?.readabilityMg) ?? 2;
   const current = d.weighings.filter((w) => !w.supersededById);
   const latest = current[current.length - 1];
+  // A volumetric dilution has no weighing: the aliquot, make-up and result panels replace target and weighing.
+  const dilution = isDilution(d);
 
   return (
     <div className="flex flex-col gap-6">
@@ -64,6 +68,7 @@ export function BenchPage() {
         . <Link to={`/preparations/${encodeURIComponent(d.identifier)}`} className="font-semibold text-brass-600 underline underline-offset-2" data-testid="bench-to-detail">Open the full record</Link>
       </PageHeader>
 
+      {dilution ? null : (
       <section aria-label="Target" className="grid gap-4 rounded-xl border-4 border-brass-400 bg-brass-100 px-5 py-5 md:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div>
           <p className="text-lg font-bold">Reading to aim for</p>
@@ -99,8 +104,11 @@ export function BenchPage() {
           </div>
         </dl>
       </section>
+      )}
 
       <ReviewFlagBanner d={d} timeZone={tz} />
+
+      {dilution ? <DilutionBench d={d} timeZone={tz} /> : null}
 
       {saved ? (
         <Banner tone="ok" title="Saved" testId="bench-saved">
@@ -114,6 +122,7 @@ export function BenchPage() {
         </Panel>
       ) : null}
 
+      {dilution ? null : (
       <div className="grid items-start gap-6 xl:grid-cols-2">
         <Panel title={correcting ? `Correct weighing #${correcting.id}` : 'Weigh'} id="bench-weigh">
           <WeighingForm
@@ -162,6 +171,7 @@ export function BenchPage() {
           </Panel>
         </div>
       </div>
+      )}
     </div>
   );
 }
