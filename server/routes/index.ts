@@ -15,6 +15,7 @@ import { traceRouter } from './trace.routes.ts';
 import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
+import { expiryRouter } from './expiry.routes.ts';
 
 /** Everything under /api. Each route states its role check (requireAuth / requireRole). */
 export function apiRouter(config: Config): Router {
@@ -31,6 +32,7 @@ export function apiRouter(config: Config): Router {
   router.use(mixRouter());
   router.use(printingRouter());
   router.use(signaturesRouter(config));
+  router.use(expiryRouter(config));
   router.use(outboxRouter());
   router.use(traceRouter(config));
   router.use(auditRouter());

@@ -38,6 +38,8 @@ import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from
 import { getSettings } from './settings.service.ts';
 import { checkChange, recordAmendment, signatureView } from './signatures.service.ts';
 import { dataEntryMode } from './preparation-status.ts';
+import { shownStatus } from '../../shared/schemas/expiry.ts';
+import { expirySection, statusWhere } from './expiry-extension.service.ts';
 import { assertWeighable, lineageExpiry, lineageSection, storeDilutionResult } from './lineage-view.ts';
 
 export interface Actor {
@@ -340,12 +342,12 @@ function person(users: Map<number, User>, id: number) {
   return { id, fullName: u?.fullName ?? `user ${id}` };
 }
 
-function summaryOf(p: Preparation, users: Map<number, User>, stage: PreparationStage): PreparationSummary {
+function summaryOf(p: Preparation, users: Map<number, User>, stage: PreparationStage, today: string): PreparationSummary {
   const u = users.get(p.createdBy);
   const s: PreparationSummary = {
     id: p.id,
     identifier: p.identifier,
-    status: p.status,
+    ...shownStatus(p.status, p.expiresOn, today), // a live record past its expiry shows as expired (expiry-extension.service)
     stage,
     materialName: p.snapshotMaterial.name,
     analyteFormula: p.analyteFormula,
@@ -405,6 +407,8 @@ function activeWeighing(weighings: Weighing[]): Weighing | undefined {
 }
 
 async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationDetail> {
+  const settings = await getSettings();
+  const today = labDate(new Date(), settings.timeZone);
   const [weighings, makeUps, events, aliquotCount] = await Promise.all([
     Weighing.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
     MakeUp.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
@@ -416,7 +420,7 @@ async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationD
   for (const w of weighings) if (w.supersedesId !== null) supersededBy.set(w.supersedesId, w.id);
   const latestMakeUp = makeUps.at(-1);
   const detail: PreparationDetail = {
-    ...summaryOf(p, users, stageOf(weighings.length > 0 || aliquotCount > 0, makeUps.length > 0)),
+    ...summaryOf(p, users, stageOf(weighings.length > 0 || aliquotCount > 0, makeUps.length > 0), today),
     version: p.version,
     inputs: p.inputs,
     conditionsUsed: p.conditionsUsed,
@@ -437,7 +441,8 @@ async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationD
     statusHistory: events.map((e) => ({ status: e.status, at: e.at, by: { id: e.byId, fullName: e.byName }, ...(e.note ? { note: e.note } : {}) })),
     expiry: { expiresOn: p.expiresOn, reason: p.expiryReason },
     ...(await signatureView(p, weighings, makeUps, viewerId)),
-    ...(await lineageSection(p, await getSettings())),
+    ...(await lineageSection(p, settings)),
+    ...(await expirySection(p, viewerId, today)),
   };
   if (p.notes) detail.notes = p.notes;
   if (latestMakeUp) detail.makeUp = makeUpDto(latestMakeUp, users);
@@ -455,12 +460,10 @@ const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
 /** GET /api/preparations */
 export async function listPreparations(q: ListPreparationsQuery, actor: Actor, opts: WriteOptions = {}): Promise<PreparationList> {
   const and: WhereOptions[] = [];
+  const today = labDate(opts.now ?? new Date(), (await getSettings()).timeZone);
   if (q.mine) and.push({ createdBy: actor.id });
-  if (q.today) {
-    const settings = await getSettings();
-    and.push({ createdOn: labDate(opts.now ?? new Date(), settings.timeZone) });
-  }
-  if (q.status) and.push({ status: q.status });
+  if (q.today) and.push({ createdOn: today });
+  if (q.status) and.push(statusWhere(q.status, today)); // by the shown status: 'expired' includes live records past expiry
   if (q.search) {
     const pattern = `%${likeEscape(q.search)}%`;
     const esc = Preparation.sequelize!.escape(pattern);
@@ -489,7 +492,7 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
   const weighed = new Set([...ws, ...as].map((w) => w.preparationId)); // a dilution's aliquot stands for the weighing
   const madeUp = new Set(ms.map((m) => m.preparationId));
   const users = await usersById(rows.map((r) => r.createdBy));
-  return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)))), total: count, page: q.page, pageSize: q.pageSize };
+  return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today)), total: count, page: q.page, pageSize: q.pageSize };
 }
 
 // ------------------------------------------------------------------ recomputation

@@ -174,12 +174,13 @@ function printDto(p: LabelPrint, identifier: string): LabelPrintDto {
 /** POST /api/preparations/:key/label-prints (chemist, technician). */
 export async function createLabelPrint(key: string, input: LabelPrintInput, actor: Actor): Promise<LabelPrintCreated> {
   const [detail, settings, template] = await Promise.all([getPreparation(key), getSettings(), activeTemplate(input.templateId)]);
-  if ((NOT_LABELLABLE as readonly string[]).includes(detail.status)) {
-    throw AppError.conflict(`Labels cannot be printed for ${detail.identifier}: the record is ${detail.status}`);
-  }
   const today = labDay(new Date().toISOString(), settings.timeZone);
+  // the date first: a live record past its expiry is shown as 'expired' (expiry-extension.service), say when
   if (detail.expiry.expiresOn < today) {
     throw AppError.conflict(`Labels cannot be printed for ${detail.identifier}: it expired on ${detail.expiry.expiresOn}`);
+  }
+  if ((NOT_LABELLABLE as readonly string[]).includes(detail.status)) {
+    throw AppError.conflict(`Labels cannot be printed for ${detail.identifier}: the record is ${detail.status}`);
   }
   const label = await labelSnapshotOf(detail, settings.timeZone);
   const reason = input.reason && input.reason.length > 0 ? input.reason : null;

@@ -24,6 +24,8 @@
  *       solventId, solventLot, solventSnapshot, solutionTemperatureC, applyTemperatureCorrection,
  *       correctionReason, supersedesId, recordedBy, recordedAt },
  *     result, expiresOn, expiryReason }
+ * (expiresOn and expiryReason as signed: after a QA expiry extension, the pre-extension values until the next
+ * version; server/db/models/expiry-extension.ts expiryAsSigned)
  * and, for a dilution or series level only (stocks hash exactly the fields above, so their hashes are unchanged):
  *     aliquots: every aliquot record (superseded ones too), oldest first, each { id, pipetteId, pipetteIdentifier,
  *       pipetteSnapshot, volumeMl, supersedesId, correctionReason, recordedBy, recordedAt },
@@ -51,6 +53,7 @@ import {
 import type { Role } from '../../shared/schemas/roles.ts';
 import {
   DilutionAliquot,
+  expiryAsSigned,
   MakeUp,
   Preparation,
   PreparationEvent,
@@ -168,8 +171,8 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
       recordedAt: m.recordedAt,
     })),
     result: p.result,
-    expiresOn: p.expiresOn,
-    expiryReason: p.expiryReason,
+    // the expiry as signed: a QA expiry extension at this version leaves the hashed expiry as it was (expiry-extension.ts)
+    ...expiryAsSigned(p),
   };
   if (!dilution) return base;
   if (dilution.mix) return { ...base, ...mixHashFields(dilution.mix) }; // a mix: aliquots with their component, every component's result
@@ -225,7 +228,7 @@ export async function currentRecordHash(preparationId: number, transaction?: Tra
   return { ...canonicalRecord(p, weighings, makeUps, dilution), version: p.version };
 }
 
-async function storeVersion(p: Preparation, canonical: string, hash: string, at: string, transaction: Transaction) {
+export async function storeVersion(p: Preparation, canonical: string, hash: string, at: string, transaction: Transaction) {
   const existing = await RecordVersion.findOne({ where: { preparationId: p.id, version: p.version, recordHash: hash }, transaction });
   if (!existing) await RecordVersion.create({ preparationId: p.id, version: p.version, canonicalJson: canonical, recordHash: hash, createdAt: at }, { transaction });
 }
@@ -399,7 +402,7 @@ const LOCKED = () => new AppError('account_locked', 423, 'This account is locked
  * Checks the signer's password against their stored hash. A failure is counted towards the lockout and
  * audited in its own committed transaction, then 401 signature_password (423 once locked).
  */
-async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number): Promise<void> {
+export async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number): Promise<void> {
   if (user.lockedAt) throw LOCKED();
   if (await verifyPassword(password, user.passwordHash)) return;
   let nowLocked = false;
@@ -426,7 +429,7 @@ async function checkSignerPassword(user: User, password: string, what: string, p
   throw new AppError('signature_password', 401, 'The password is not correct; the record was not signed', { fields: { password: 'The password is not correct' } });
 }
 
-async function resetFailures(user: User, transaction: Transaction) {
+export async function resetFailures(user: User, transaction: Transaction) {
   await user.reload({ transaction });
   if ((user.failedLoginCount ?? 0) !== 0) {
     user.failedLoginCount = 0;

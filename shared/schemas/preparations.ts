@@ -18,6 +18,7 @@ import type { GateCode, GateSeverity, GateSuggestion } from '../prep/gates.ts';
 import type { PlanGate, PlanGateCode } from '../prep/plan-gates.ts';
 import type { Balance, ReferenceMaterial, VolumetricWare } from './inventory.ts';
 import { DECIMAL_TEXT } from './decimal-text.ts';
+import type { ExpirySection } from './expiry.ts';
 
 export type { CalcPreparationResponse, GateCode, GateSeverity, GateSuggestion, PlanGateCode };
 /** A planning gate: the codes of shared/prep/gates.ts plus the flask/density gates of shared/prep/plan-gates.ts. */
@@ -192,7 +193,8 @@ export type MakeUpInput = z.output<typeof makeUpInputSchema>;
 /**
  * Record status (server-enforced state machine, server/services/preparation-status.ts):
  * planned → prepared (preparer signs) → verified | returned (verifier's reason) → prepared (new signature);
- * any live state → discarded (reason); expired is set by the expiry job. A correction after signing sets
+ * any live state → discarded (reason); a live record past its expiry is shown as expired (statusBeforeExpiry keeps
+ * the stored status; shared/schemas/expiry.ts) until QA extends it. A correction after signing sets
  * the status back to planned with amendedFromVersion.
  */
 export const PREPARATION_STATUSES = ['planned', 'prepared', 'verified', 'returned', 'expired', 'discarded'] as const;
@@ -281,6 +283,8 @@ export interface PreparationSummary {
   identifier: string;
   status: PreparationStatus;
   stage: PreparationStage;
+  /** set when `status` is 'expired' only because the lab date is past expiresOn: the stored status (e.g. 'verified') */
+  statusBeforeExpiry?: PreparationStatus;
   materialName: string;
   analyteFormula: string;
   target: Quantity;
@@ -396,7 +400,7 @@ export interface StatusEvent {
   note?: string;
 }
 
-export interface PreparationDetail extends PreparationSummary {
+export interface PreparationDetail extends PreparationSummary, ExpirySection {
   version: number;
   inputs: PlanInput;
   notes?: string;

@@ -100,6 +100,7 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/series/proposal': 'lineage.test.ts',
   'POST /api/series': 'lineage.test.ts',
   'GET /api/series/:key': 'lineage.test.ts',
+  'POST /api/preparations/:key/expiry-extensions': 'expiry-extension.test.ts',
   'POST /api/mixes': 'mixes.test.ts',
 };
 

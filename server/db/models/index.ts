@@ -15,6 +15,7 @@ import { initPrinting } from './printing.model.ts';
 import { initSignatures } from './signature.model.ts';
 import { initMail } from './mail.model.ts';
 import { initLineage } from './lineage.model.ts';
+import { initExpiryExtensions } from './expiry-extension.ts';
 
 export { User } from './user.model.ts';
 export { AuditEntry } from './audit-entry.model.ts';
@@ -28,6 +29,7 @@ export { LabelPrint, LabelTemplate, type LabelSnapshot, type TemplateSnapshot } 
 export { Signature, RecordVersion, SignatureAcknowledgement, ReviewFlag } from './signature.model.ts';
 export { MailQueueItem, FakeMail, type MailStatus } from './mail.model.ts';
 export { PreparationParent, DilutionAliquot, Series } from './lineage.model.ts';
+export { ExpiryExtension, expiryAsSigned } from './expiry-extension.ts';
 
 const bound = new WeakSet<Sequelize>();
 
@@ -42,6 +44,7 @@ export function initModels(sequelize: Sequelize) {
   initSignatures(sequelize);
   initMail(sequelize);
   initLineage(sequelize);
+  initExpiryExtensions(sequelize);
   bound.add(sequelize);
   return models;
 }

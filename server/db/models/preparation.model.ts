@@ -51,6 +51,10 @@ export class Preparation extends Model<InferAttributes<Preparation>, InferCreati
   declare createdOn: string;
   /** stock | dilution | series_level | mix (migration 0008; written by the lineage service). */
   declare kind: CreationOptional<string>;
+  /** the expiry as signed at the version QA extended it (migration 0010; written by the expiry-extension service) */
+  declare preExtensionVersion: CreationOptional<number | null>;
+  declare preExtensionExpiresOn: CreationOptional<string | null>;
+  declare preExtensionExpiryReason: CreationOptional<string | null>;
   /** a dilution's stored result with its calcVersion and basedOn (migration 0011; written by lineage-view storeDilutionResult) */
   declare dilutionResult: CreationOptional<Record<string, unknown> | null>;
   declare createdBy: number;
@@ -119,6 +123,9 @@ export function initPreparations(sequelize: Sequelize) {
       expiryReason: requiredText(),
       createdOn: requiredText(),
       kind: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'stock' },
+      preExtensionVersion: { type: DataTypes.INTEGER, allowNull: true },
+      preExtensionExpiresOn: optionalText(),
+      preExtensionExpiryReason: optionalText(),
       dilutionResult: nullableJson<Record<string, unknown>>('dilutionResult'),
       createdBy: { type: DataTypes.INTEGER, allowNull: false },
       createdAt: requiredText(),
