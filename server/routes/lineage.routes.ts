@@ -2,6 +2,8 @@ import { Router } from 'express';
 import { aliquotInputSchema, createSeriesInputSchema, dilutionInputSchema, seriesProposalInputSchema } from '../../shared/schemas/lineage.ts';
 import { requireAuth, requireRole } from '../middleware/session.ts';
 import * as lineage from '../services/lineage.service.ts';
+import * as series from '../services/series.service.ts';
+import { seriesListQuerySchema } from '../../shared/schemas/lineage.ts';
 
 const keyOf = (raw: string | string[] | undefined) => (Array.isArray(raw) ? raw[0] : raw) ?? '';
 
@@ -33,8 +35,22 @@ export function lineageRouter(): Router {
     res.status(201).json(await lineage.createSeries(input, actor(req.user!)));
   });
 
+  // GET /series (the list) before /series/:key; POST /series/proposal is a POST, so no clash
+  router.get('/series', requireAuth, async (req, res) => {
+    res.json(await series.listSeries(seriesListQuerySchema.parse(req.query)));
+  });
+
   router.get('/series/:key', requireAuth, async (req, res) => {
-    res.json(await lineage.getSeries(keyOf(req.params.key)));
+    res.json(await series.getSeriesDetail(keyOf(req.params.key)));
+  });
+
+  // the series sheet (any signed-in role; each one served is audited as a print, like the prep sheet)
+  router.get('/series/:key/sheet.pdf', requireAuth, async (req, res) => {
+    const { pdf, filename } = await series.seriesSheetPdf(keyOf(req.params.key), actor(req.user!));
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `inline; filename="${filename.replace(/[^\w.-]/g, '_')}"`);
+    res.setHeader('Cache-Control', 'no-store');
+    res.send(pdf);
   });
 
   return router;

@@ -175,6 +175,87 @@ export interface SeriesDto {
   levels: Array<{ id: number; identifier: string; status: string; target: { value: string; unit: string }; pipetteIdentifier: string; flaskIdentifier: string; plannedConcentration: string; expiresOn: string }>;
 }
 
+// ---------------------------------------------------------------- one series, the list (GET /api/series, /api/series/:key)
+
+/** A concentration with its uncertainty as the API gives it (decimal strings; `display` GUM-rounded). */
+export interface SeriesConcentration {
+  value: string;
+  unit: string;
+  standardUncertainty: string;
+  expandedUncertainty: string;
+  k: string;
+  display: string;
+}
+
+/** A signature on a level, for the series page and sheet (the valid one, newest). */
+export interface SeriesSigner {
+  id: number;
+  fullName: string;
+  signedAt: string;
+}
+
+/** One level as the bench chemist and QA read it: the stored plan, the recomputed result, state and signatures. */
+export type SeriesLevelDetail = SeriesDto['levels'][number] & {
+  /** 1, 2, … in the order the levels were created */
+  levelNo: number;
+  version: number;
+  /** planned | weighed (aliquot recorded) | made_up | complete */
+  stage: string;
+  /** the planned aliquot (plan.dilution) */
+  aliquot: { pipette: { id: number; identifier: string; kind: string; nominalVolumeMl: string }; volumeMl: string };
+  flask: { id: number | null; identifier: string; nominalVolumeMl: string };
+  /** expected with the planned ware, from the stored plan (plan.dilution.planned) */
+  planned: SeriesConcentration;
+  /** recomputed from the recorded aliquot and make-up; absent until both are recorded */
+  result?: SeriesConcentration & { basedOn: { aliquotId: number; makeUpId: number } };
+  /** the aliquot that counts, once recorded */
+  aliquotRecorded?: { pipetteIdentifier: string; volumeMl: string };
+  expiryReason: string;
+  preparedBy?: SeriesSigner;
+  verifiedBy?: SeriesSigner;
+};
+
+/** GET /api/series/:key: the series with its parent (as used) and every level in full. */
+export interface SeriesDetail extends Omit<SeriesDto, 'parent' | 'levels'> {
+  parent: SeriesDto['parent'] & {
+    /** the parent as used when the series was made (frozen snapshot) */
+    version: number;
+    concentrationDisplay: string;
+    expiresOn: string;
+    /** the parent record's status now */
+    status: string;
+    material: { name: string; lot: string; producer: string; certificateNumber: string | null; expiresOn: string | null };
+  };
+  levels: SeriesLevelDetail[];
+  /** cautions for the analyte's reference material (server/services/preparation-hazards.ts) */
+  hazards: { pictograms: string[]; statements: string[]; cautions: string[] };
+  notes?: string;
+}
+
+/** Query of GET /api/series: newest first, optionally the series of one parent (identifier or id). */
+export const seriesListQuerySchema = z.object({
+  parent: z
+    .string()
+    .trim()
+    .max(40, 'Use at most 40 characters')
+    .regex(/^([1-9]\d{0,15}|[A-Z]{2,6}-\d{4}-\d{4,})$/, 'Give the parent as an identifier such as HWL-2026-0001 (or its id)')
+    .optional(),
+  page: z.coerce.number({ error: 'page is a whole number ≥ 1' }).int('page is a whole number ≥ 1').min(1, 'page is a whole number ≥ 1').default(1),
+  pageSize: z.coerce.number({ error: 'pageSize is 1 to 100' }).int('pageSize is 1 to 100').min(1, 'pageSize is 1 to 100').max(100, 'pageSize is 1 to 100').default(25),
+});
+export type SeriesListQuery = z.output<typeof seriesListQuerySchema>;
+
+export interface SeriesSummary extends Omit<SeriesDto, 'levels'> {
+  levels: Array<{ id: number; identifier: string; status: string; target: { value: string; unit: string }; expiresOn: string }>;
+}
+
+export interface SeriesList {
+  items: SeriesSummary[];
+  total: number;
+  page: number;
+  pageSize: number;
+}
+
 export interface SeriesProposalResponse {
   parent: ParentSnapshot;
   minAliquotMl: string;

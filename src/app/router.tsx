@@ -59,6 +59,18 @@ export const router = createBrowserRouter([
             ],
           },
           {
+            path: 'series',
+            children: [
+              { index: true, lazy: async () => ({ Component: (await import('../features/series/series-list-page.tsx')).SeriesListPage }) },
+              { path: ':identifier', lazy: async () => ({ Component: (await import('../features/series/series-detail-page.tsx')).SeriesDetailPage }) },
+            ],
+          },
+          {
+            path: 'mixes',
+            element: <RequireRole roles={['chemist']} />,
+            children: [{ path: 'new', lazy: async () => ({ Component: (await import('../features/mixes/mix-page.tsx')).MixPage }) }],
+          },
+          {
             path: 'trace',
             element: <RequireRole roles={['qa', 'admin', 'chemist']} />,
             children: [{ index: true, lazy: async () => ({ Component: (await import('../features/trace/trace-page.tsx')).TracePage }) }],

@@ -59,6 +59,7 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/trace/:identifier/report.csv', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
   { method: 'get', path: '/api/preparations/:key/review-flags', allowed: 'signedIn', ok: 200 },
   { method: 'post', path: '/api/admin/expiry-digest', allowed: ['admin'], ok: 200 },
+  { method: 'get', path: '/api/series', allowed: 'signedIn', ok: 200 },
 ];
 
 /**
@@ -100,6 +101,7 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/series/proposal': 'lineage.test.ts',
   'POST /api/series': 'lineage.test.ts',
   'GET /api/series/:key': 'lineage.test.ts',
+  'GET /api/series/:key/sheet.pdf': 'series.test.ts',
   'POST /api/preparations/:key/expiry-extensions': 'expiry-extension.test.ts',
   'POST /api/mixes': 'mixes.test.ts',
 };

@@ -117,6 +117,15 @@ export function SeriesPage() {
       ) : created ? (
         <Panel title={`Series ${created.series.identifier} created`} id="series-created">
           <p className="mb-3">Each level is its own planned record: weigh nothing, pipette the aliquot, make up, sign and verify each one.</p>
+          <p className="mb-3">
+            <Link
+              to={`/series/${encodeURIComponent(created.series.identifier)}`}
+              data-testid="series-open"
+              className="inline-flex min-h-12 items-center rounded-lg border-2 border-slate-700 bg-slate-700 px-5 font-semibold text-white hover:bg-slate-900"
+            >
+              Open series {created.series.identifier}
+            </Link>
+          </p>
           <ul className="flex flex-col gap-2" data-testid="series-created-list">
             {created.preparations.map((c) => (
               <li key={c.id}>

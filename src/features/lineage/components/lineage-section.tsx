@@ -105,7 +105,15 @@ export function LineagePanel({ d }: { d: PreparationDetail }) {
                 {parent.identifier}
               </Link>{' '}
               ({parent.snapshot.concentration.display}, as used; {l.dilution!.plannedAliquot.volumeMl} mL with {l.dilution!.plannedAliquot.pipette.identifier} into {l.dilution!.plannedFinalMl} mL)
-              {l.dilution?.series ? <span> · series <span className="num">{l.dilution.series.identifier}</span></span> : null}
+              {l.dilution?.series ? (
+                <span>
+                  {' '}
+                  · series{' '}
+                  <Link to={`/series/${encodeURIComponent(l.dilution.series.identifier)}`} data-testid="lineage-series" className="num font-semibold text-brass-600 underline">
+                    {l.dilution.series.identifier}
+                  </Link>
+                </span>
+              ) : null}
             </>
           ) : (
             <>
