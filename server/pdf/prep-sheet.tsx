@@ -11,6 +11,7 @@ import { Document, Image, Page, StyleSheet, Text, View } from '@react-pdf/render
 import type { ReactNode } from 'react';
 import type { AuditEntryDto } from '../../shared/schemas/audit.ts';
 import type { BudgetEntry, PreparationDetail, Signature, Weighing } from '../../shared/schemas/preparations.ts';
+import type { DilutionSection } from '../../shared/schemas/lineage.ts';
 import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay, percent, shortDecimal } from './format.ts';
@@ -230,6 +231,57 @@ function inputRows(d: PreparationDetail): string[][] {
   return rows;
 }
 
+// ------------------------------------------------------------------ volumetric dilutions (no weighing; METROLOGY §5.5)
+
+/** The dilution section of a dilution or series level's detail; undefined for a stock. */
+const dilutionOf = (d: PreparationDetail): DilutionSection | undefined => (d as PreparationDetail & { dilution?: DilutionSection }).dilution;
+
+const wareText = (w: { identifier: string; kind: string; nominalVolumeMl: string; class?: string | null; toleranceMl?: string | null }) =>
+  `${w.identifier}: ${w.kind.replace(/_/g, ' ')}, ${w.nominalVolumeMl} mL${w.class ? `, class ${w.class}` : ''}${w.toleranceMl ? `, tolerance ±${w.toleranceMl} mL` : ''}`;
+
+function dilutionInputRows(d: PreparationDetail, dil: DilutionSection): string[][] {
+  const p = dil.parent.snapshot;
+  const f = d.makeUp?.flask.snapshot ?? d.snapshot.flask;
+  const rows: string[][] = [
+    ['Target concentration', `${d.target.value} ${d.target.unit}`, 'entered by the planner'],
+    ['Analyte', d.analyteFormula, `as in the parent ${p.identifier}`],
+    ['Parent concentration c1', `${p.concentration.display} (u = ${shortDecimal(p.concentration.standardUncertainty, 6)} ${p.concentration.unit})`, `parent ${p.identifier} v${p.version}, ${p.status} when used, expires ${p.expiresOn}`],
+    ['Planned aliquot Vp', `${dil.plannedAliquot.volumeMl} mL`, wareText(dil.plannedAliquot.pipette.snapshot)],
+    ['Final volume Vf', `${dil.plannedFinalMl} mL`, f ? wareText(f) : 'planned volume'],
+  ];
+  if (d.makeUp) rows.push(['Solution temperature', `${d.makeUp.solutionTemperatureC} °C`, `entered at make-up by ${d.makeUp.recordedBy.fullName}`]);
+  return rows;
+}
+
+function DilutionCalculationText({ dil }: { dil: DilutionSection }) {
+  const r = dil.result;
+  const c1 = dil.parent.snapshot.concentration;
+  if (!r) {
+    return (
+      <View>
+        <T style={s.para}>{`Planned: c2 = c1 × Vp ÷ Vf = ${shortDecimal(c1.value, 6)} ${c1.unit} × ${dil.plannedAliquot.volumeMl} mL ÷ ${dil.plannedFinalMl} mL; expected ${dil.planned.display}.`}</T>
+        <T style={s.para}>No result yet: the concentration is computed when the aliquot and the make-up to volume are recorded.</T>
+      </View>
+    );
+  }
+  const a = dil.aliquots.find((x) => x.id === r.basedOn.aliquotId);
+  const lines = [
+    `1. Aliquot of the parent ${dil.parent.identifier}: Vp = ${dash(a?.volumeMl)} mL with ${dash(a?.pipette.identifier)} (aliquot #${r.basedOn.aliquotId}).`,
+    `2. Made up to Vf (make-up #${r.basedOn.makeUpId}); c2 = c1 × Vp ÷ Vf with c1 = ${shortDecimal(c1.value, 6)} ${c1.unit} (as used): c2 = ${shortDecimal(r.value, 6)} ${r.unit}.`,
+    `3. Relative variances add: (u(c2)/c2)² = (u(c1)/c1)² + (u(Vp)/Vp)² + (u(Vf)/Vf)², volumes from the ware tolerances (triangular for glass, rectangular for piston pipettes): u(c2) = ${shortDecimal(r.standardUncertainty, 6)} ${r.unit} (relative ${percent(r.relative, 2)}); U = k × u = ${shortDecimal(r.expandedUncertainty, 6)} ${r.unit} with k = ${r.k}.`,
+    `Reported: ${r.display}. Formula version ${r.calcVersion}.`,
+  ];
+  return (
+    <View>
+      {lines.map((l, i) => (
+        <T key={i} style={s.para}>
+          {l}
+        </T>
+      ))}
+    </View>
+  );
+}
+
 function SignatureBlock({ sigs, tz }: { sigs: Signature[]; tz: string }) {
   if (!sigs.length) return <Text style={s.para}>No signatures yet.</Text>;
   return (
@@ -256,6 +308,8 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
   const verified = isVerified(d.status);
   const m = d.snapshot.material;
   const activeWeighings = d.weighings;
+  const dil = dilutionOf(d);
+  const dr = dil?.result;
   const title = `${d.identifier} v${d.version}`;
   return (
     <Document title={`Prep sheet ${title}`} author={data.lab.name} creator="Tarebook" producer="Tarebook" creationDate={new Date(data.generatedAt)}>
@@ -280,7 +334,10 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         <View style={[s.row, { justifyContent: 'space-between' }]}>
           <View style={{ flex: 1, paddingRight: 10 }}>
             <T style={s.big}>{`${d.materialName} — ${d.analyteFormula}`}</T>
-            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
+            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : dr ? dr.display : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
+            {dr && !d.result ? (
+              <T style={s.small}>{`c = ${shortDecimal(dr.value, 6)} ${dr.unit}; expanded uncertainty U = ${shortDecimal(dr.expandedUncertainty, 4)} ${dr.unit} (k = ${dr.k}, about 95 % coverage); diluted from ${dil!.parent.identifier}`}</T>
+            ) : null}
             {d.result ? (
               <T style={s.small}>{`c = ${shortDecimal(d.result.concentration.value, 6)} ${d.result.concentration.unit}; expanded uncertainty U = ${shortDecimal(d.result.concentration.expandedUncertainty, 4)} ${d.result.concentration.unit} (k = ${d.result.concentration.k}, about 95 % coverage)`}</T>
             ) : null}
@@ -315,10 +372,34 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               { title: 'Value', width: '34%' },
               { title: 'Source', width: '40%' },
             ]}
-            rows={inputRows(d)}
+            rows={dil ? dilutionInputRows(d, dil) : inputRows(d)}
           />
         </Section>
 
+        {dil ? (
+          <Section title="Aliquots (as recorded; superseded entries stay listed)">
+            {dil.aliquots.length ? (
+              <Table
+                cols={[
+                  { title: '#', width: '6%' },
+                  { title: 'Pipette', width: '34%' },
+                  { title: 'Volume', width: '12%' },
+                  { title: 'Recorded', width: '24%' },
+                  { title: 'Notes', width: '24%' },
+                ]}
+                rows={dil.aliquots.map((a) => [
+                  String(a.id),
+                  wareText(a.pipette.snapshot) + (a.pipette.identifier !== dil.plannedAliquot.pipette.identifier ? ' (substituted for the planned pipette)' : ''),
+                  `${a.volumeMl} mL`,
+                  `${a.recordedBy.fullName}, ${labDateTime(a.recordedAt, tz)}`,
+                  [a.supersedesId ? `corrects #${a.supersedesId}: ${dash(a.correctionReason)}` : '', a.supersededById ? `SUPERSEDED by #${a.supersededById}` : ''].filter(Boolean).join('; '),
+                ])}
+              />
+            ) : (
+              <Text style={s.para}>{`No aliquot recorded yet. Planned: ${dil.plannedAliquot.volumeMl} mL of ${dil.parent.identifier} with ${dil.plannedAliquot.pipette.identifier}.`}</Text>
+            )}
+          </Section>
+        ) : (
         <Section title="Weighings (as read; superseded entries stay listed)">
           {activeWeighings.length ? (
             <Table
@@ -352,6 +433,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
             <Text style={s.para}>No weighing recorded yet. Target reading {d.plan.targetReading.value} mg (window {d.plan.window.low}–{d.plan.window.high} mg).</Text>
           )}
         </Section>
+        )}
 
         <Section title="Flask and solvent">
           {d.makeUp ? (
@@ -372,7 +454,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         </Section>
 
         <Section title="Calculation">
-          <CalculationText d={d} />
+          {dil ? <DilutionCalculationText dil={dil} /> : <CalculationText d={d} />}
         </Section>
 
         <Section title="Uncertainty budget (GUM)">
@@ -391,8 +473,23 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               />
               <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(d.result.concentration.standardUncertainty, 6)} ${d.result.concentration.unit}; U = ${shortDecimal(d.result.concentration.expandedUncertainty, 6)} ${d.result.concentration.unit} (k = ${d.result.concentration.k}).`}</T>
             </View>
+          ) : dr ? (
+            <View>
+              <Table
+                cols={[
+                  { title: 'Input', width: '30%' },
+                  { title: 'Value', width: '17%' },
+                  { title: 'Standard uncertainty', width: '15%' },
+                  { title: 'Sensitivity', width: '14%' },
+                  { title: 'Contribution', width: '14%' },
+                  { title: 'Share', width: '10%' },
+                ]}
+                rows={budgetRows(dr.budget.map((b) => ({ ...b, unit: b.input === 'parent' ? dr.unit : b.input === 'aliquot' || b.input === 'final' ? 'mL' : '1' })))}
+              />
+              <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(dr.standardUncertainty, 6)} ${dr.unit}; U = ${shortDecimal(dr.expandedUncertainty, 6)} ${dr.unit} (k = ${dr.k}).`}</T>
+            </View>
           ) : (
-            <T style={s.para}>{`Expected at planning: ${d.plan.expectedUncertainty.display}. The budget is computed with the result.`}</T>
+            <T style={s.para}>{`Expected at planning: ${dil ? dil.planned.display : d.plan.expectedUncertainty.display}. The budget is computed with the result.`}</T>
           )}
         </Section>
 

@@ -118,7 +118,7 @@ export function AliquotForm({
           inputMode="decimal"
           registration={{ ...volumeReg, ref: (el) => { volumeReg.ref(el); volumeRef.current = el; } }}
           error={err('volumeMl')}
-          hint={`Planned: ${planned.volumeMl} mL. Type it as set, e.g. 2.500.`}
+          hint={`Planned: ${planned.volumeMl} mL. Type the volume exactly as set on the pipette.`}
           data-testid="aliquot-volume"
           className="[&_input]:min-h-16 [&_input]:text-3xl"
         />

@@ -93,7 +93,7 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
               {dil.parent.identifier}
             </Link>{' '}
             <span className="whitespace-nowrap">
-              (<span className="num font-semibold" data-testid="bench-parent-concentration">{parentConc.display}</span>)
+              · <span className="num font-semibold" data-testid="bench-parent-concentration">{parentConc.display}</span>
             </span>
           </p>
           <p className="mt-1 text-xl">
@@ -109,7 +109,7 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
             </dd>
             <dd className="text-base" data-testid="bench-pipette-kind">
               {wareKindLabel(pipette.kind)}, nominal <span className="num">{pipette.nominalVolumeMl} mL</span>
-              {pipette.class ? `, class ${pipette.class}` : ''}
+              {pipette.class && pipette.class !== 'n/a' ? `, class ${pipette.class}` : ''}
               {fields.volume === 'set' ? <> · set it to <span className="num font-semibold">{planned.volumeMl} mL</span></> : ' · delivers its nominal volume'}
             </dd>
           </div>
@@ -129,7 +129,7 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
           ))}
           <li>Never pipette by mouth: use a pipette filler or the piston pipette, and wear gloves and eye protection.</li>
         </ul>
-        <p className="mt-1 font-semibold">Follow the SDS, local regulations and the laboratory&apos;s own procedures.</p>
+        {d.hazards.cautions.some((c) => /\bSDS\b/.test(c)) ? null : <p className="mt-1 font-semibold">Follow the SDS, local regulations and the laboratory&apos;s own procedures.</p>}
       </CautionBox>
 
       {saved ? (
