@@ -7,6 +7,7 @@ import { certificatesRouter } from './certificates.routes.ts';
 import { healthRouter } from './health.routes.ts';
 import { inventoryRouter } from './inventory.routes.ts';
 import { lineageRouter } from './lineage.routes.ts';
+import { gravimetricRouter } from './gravimetric.routes.ts';
 import { mixRouter } from './mix.routes.ts';
 import { preparationsRouter } from './preparations.routes.ts';
 import { printingRouter } from './printing.routes.ts';
@@ -29,6 +30,7 @@ export function apiRouter(config: Config): Router {
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());
   router.use(lineageRouter());
+  router.use(gravimetricRouter());
   router.use(mixRouter());
   router.use(printingRouter());
   router.use(signaturesRouter(config));

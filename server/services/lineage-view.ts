@@ -14,6 +14,7 @@ import type { Aliquot, DilutionSection, LineageSection, ParentSnapshot, Preparat
 import { DEFAULT_STABILITY_BASIS, DEFAULT_STABILITY_DAYS, type LabSettings } from '../../shared/schemas/settings.ts';
 import { DilutionAliquot, MakeUp, Preparation, PreparationParent, Series, User } from '../db/models/index.ts';
 import { AppError } from '../errors/app-error.ts';
+import { gravimetricResultOf, gravimetricSection, isGravimetricPlan } from './gravimetric-calc.ts';
 
 export const DILUTION_CALC_VERSION = 'dilution-1 (METROLOGY §5.5: c2 = c1·Vp/Vf, relative variances add, no per-item temperature term)';
 
@@ -70,6 +71,7 @@ export type VolumetricDilutionResult = NonNullable<DilutionSection['result']>;
  * the lab's rounding rule cannot change a signed record; rows without a stored result (legacy) are computed.
  */
 export async function dilutionResultOf(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction?: Transaction): Promise<VolumetricDilutionResult | null> {
+  if (isGravimetricPlan(p)) return null; // a gravimetric dilution's result: gravimetricResultOf (gravimetric-calc)
   const t = transaction ? { transaction } : {};
   const [link, aliquots, makeUp] = await Promise.all([
     PreparationParent.findOne({ where: { preparationId: p.id, role: 'aliquot' }, ...t }),
@@ -105,6 +107,10 @@ export async function storeDilutionResult(p: Preparation, settings: Pick<LabSett
 
 /** The concentration of a preparation as a parent: a stock's stored result, a dilution's stored (or, legacy, recomputed) result. */
 export async function concentrationOf(p: Preparation, kind: PreparationKind, settings: Pick<LabSettings, 'roundingRule'>): Promise<ParentSnapshot['concentration'] | null> {
+  if (isDilutionKind(kind) && isGravimetricPlan(p)) {
+    const g = (await gravimetricResultOf(p, settings))?.massConcentration; // as a parent: its mass concentration (mg/L)
+    return g ? { value: g.value, unit: g.unit, standardUncertainty: g.standardUncertainty, display: g.display } : null;
+  }
   if (isDilutionKind(kind)) {
     const r = await dilutionResultOf(p, settings);
     return r ? { value: r.value, unit: r.unit, standardUncertainty: r.standardUncertainty, display: r.display } : null;
@@ -148,6 +154,9 @@ export function expiryFor(
 export async function assertWeighable(p: Preparation): Promise<void> {
   const { kind } = await lineageRow(p.id);
   if (kind === 'mix') throw new AppError('not_weighable', 409, `${p.identifier} is a mix: record each component's aliquot (POST /api/preparations/${p.identifier}/aliquots with its componentId) and the make-up; there is nothing to weigh`);
+  if (isDilutionKind(kind) && isGravimetricPlan(p)) {
+    throw new AppError('not_weighable', 409, `${p.identifier} is a gravimetric dilution: record both readings (POST /api/preparations/${p.identifier}/gravimetric-readings)`);
+  }
   if (isDilutionKind(kind)) {
     throw new AppError('not_weighable', 409, `${p.identifier} is a volumetric dilution: record the aliquot (POST /api/preparations/${p.identifier}/aliquots) and the make-up; there is nothing to weigh`);
   }
@@ -180,6 +189,10 @@ export async function lineageSection(p: Preparation, settings: Pick<LabSettings,
     return mix ? { ...section, mix } : section;
   }
   if (!isDilutionKind(kind)) return section;
+  if (isGravimetricPlan(p)) {
+    const gravimetric = await gravimetricSection(p, settings);
+    return gravimetric ? { ...section, gravimetric } : section;
+  }
   const link = await PreparationParent.findOne({ where: { preparationId: p.id, role: 'aliquot' } });
   if (!link) return section;
   const planEarly = p.plan as unknown as { dilution?: unknown };

@@ -34,6 +34,7 @@ import { dataEntryMode } from './preparation-status.ts';
 import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
+import { isGravimetricPlan } from './gravimetric-calc.ts';
 import { activeAliquot, concentrationOf, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
@@ -268,6 +269,7 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
   if (kind === 'mix') return (await import('./mix.service.ts')).recordMixAliquot(prep, input, actor, opts); // one aliquot per component
   if (input.componentId !== undefined) throw AppError.validation(`${prep.identifier} is not a mix`, { componentId: `${prep.identifier} is not a mix: send no componentId` });
   if (!isDilutionKind(kind)) throw new AppError('not_a_dilution', 409, `${prep.identifier} is a ${kind}, not a dilution: record a weighing instead`);
+  if (isGravimetricPlan(prep)) throw new AppError('not_volumetric', 409, `${prep.identifier} is a gravimetric dilution: record both readings (POST /api/preparations/${prep.identifier}/gravimetric-readings), not an aliquot volume`);
   dataEntryMode(prep.identifier, prep.status); // 409 when expired or discarded
   if (prep.status !== 'planned') {
     throw AppError.conflict(`${prep.identifier} is '${prep.status}': aliquots can be recorded or corrected only while the record is planned`);

@@ -41,6 +41,7 @@ import { dataEntryMode } from './preparation-status.ts';
 import { shownStatus } from '../../shared/schemas/expiry.ts';
 import { expirySection, statusWhere } from './expiry-extension.service.ts';
 import { assertWeighable, lineageExpiry, lineageSection, storeDilutionResult } from './lineage-view.ts';
+import { isGravimetricPlan } from './gravimetric-calc.ts';
 
 export interface Actor {
   id: number;
@@ -90,7 +91,7 @@ function resolveConditions(input: ConditionsInput, settings: LabSettings, now: D
 
 // ------------------------------------------------------------------ planning
 
-const gateBalance = (b: BalanceDto): GateBalance => ({
+export const gateBalance = (b: BalanceDto): GateBalance => ({
   identifier: b.identifier,
   status: b.status as GateBalance['status'],
   ...(b.calibrationDueOn ? { calibrationDueOn: b.calibrationDueOn } : {}),
@@ -536,7 +537,7 @@ async function storeRecomputation(p: Preparation, settings: LabSettings, at: str
 
 // ------------------------------------------------------------------ weighing
 
-function usableBalanceGates(b: BalanceDto, today: string): Gate[] {
+export function usableBalanceGates(b: BalanceDto, today: string): Gate[] {
   const out: Gate[] = [];
   if (b.status !== 'in_service') {
     out.push({ code: 'balance_out_of_service', severity: 'block', message: `${b.identifier} is ${b.status.replace(/_/g, ' ')}`, action: `Do not weigh on ${b.identifier}; choose an in-service, calibrated balance` });
@@ -690,6 +691,7 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
   const now = opts.now ?? new Date();
   const prep = await findPreparation(key);
   dataEntryMode(prep.identifier, prep.status); // 409 when expired or discarded
+  if (isGravimetricPlan(prep)) throw new AppError('not_volumetric', 409, `${prep.identifier} is a gravimetric dilution: it is made up to a mass; record both readings (POST /api/preparations/${prep.identifier}/gravimetric-readings)`);
   const settings = await getSettings();
   const today = labDate(now, settings.timeZone);
 

@@ -34,6 +34,8 @@
  *     mixResults: every component's result ({ linkId, analyteFormula, …result, basedOn }), or null until all exist;
  *     a mix is complete for "prepared" with a current aliquot for every component, a make-up and the results.
  * A dilution is complete for "prepared" with a current aliquot, a make-up and a dilution result (no weighing).
+ * A gravimetric dilution hashes, instead of aliquots, gravimetricReadings (every readings record) and its stored
+ * dilutionResult (gravimetricHashFields); it is complete for "prepared" with current readings and a result.
  * Status, status history and the signatures themselves are not part of it (signing does not change the record).
  */
 import { createHash } from 'node:crypto';
@@ -53,6 +55,7 @@ import {
 import type { Role } from '../../shared/schemas/roles.ts';
 import {
   DilutionAliquot,
+  GravimetricReading,
   expiryAsSigned,
   MakeUp,
   Preparation,
@@ -74,6 +77,7 @@ import { verifyPassword } from './passwords.ts';
 import { activeAliquot, dilutionResultOf, isDilutionKind, lineageRow } from './lineage-view.ts';
 import { mixCompleteness, mixEntriesOf, mixHashFields, type MixEntries } from './mix-view.ts';
 import { getSettings } from './settings.service.ts';
+import { activeReadings, gravimetricResultOf, isGravimetricPlan, readingsOf } from './gravimetric-calc.ts';
 
 export interface Signer {
   id: number;
@@ -122,6 +126,8 @@ export interface DilutionEntries {
   result: unknown | null;
   /** set for a mix only (mix-view.ts): its components' current aliquots and results */
   mix?: MixEntries;
+  /** set for a gravimetric dilution only: every readings record (gravimetric-calc.ts) */
+  gravimetricReadings?: GravimetricReading[];
 }
 
 export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): Record<string, unknown> {
@@ -176,6 +182,7 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
   };
   if (!dilution) return base;
   if (dilution.mix) return { ...base, ...mixHashFields(dilution.mix) }; // a mix: aliquots with their component, every component's result
+  if (dilution.gravimetricReadings) return { ...base, ...gravimetricHashFields(dilution.gravimetricReadings, dilution.result) }; // a gravimetric dilution: its readings and stored result
   return {
     ...base,
     aliquots: dilution.aliquots.map((a) => ({
@@ -193,6 +200,32 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
   };
 }
 
+/**
+ * A gravimetric dilution's own entries in the hashed record: every readings record (superseded ones too), oldest
+ * first, each { id, balanceId, balanceSnapshot, unit, aliquotReading, finalReading, conditions, airDensity,
+ * airDensityU, supersedesId, correctionReason, recordedBy, recordedAt }, and the stored result (dilutionResult).
+ */
+function gravimetricHashFields(readings: GravimetricReading[], result: unknown): Record<string, unknown> {
+  return {
+    gravimetricReadings: readings.map((r) => ({
+      id: r.id,
+      balanceId: r.balanceId,
+      balanceSnapshot: r.balanceSnapshot,
+      unit: r.unit,
+      aliquotReading: r.aliquotReading,
+      finalReading: r.finalReading,
+      conditions: r.conditions,
+      airDensity: r.airDensity,
+      airDensityU: r.airDensityU,
+      supersedesId: r.supersedesId,
+      correctionReason: r.correctionReason,
+      recordedBy: r.recordedBy,
+      recordedAt: r.recordedAt,
+    })),
+    dilutionResult: result ?? null,
+  };
+}
+
 export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): { canonical: string; hash: string } {
   const canonical = canonicalJson(recordForHash(p, weighings, makeUps, dilution));
   return { canonical, hash: sha256(canonical) };
@@ -206,6 +239,10 @@ export async function dilutionEntriesOf(p: Preparation, transaction?: Transactio
     return mix ? { aliquots: mix.aliquots, result: mix.results, mix } : null;
   }
   if (!isDilutionKind(kind)) return null;
+  if (isGravimetricPlan(p)) {
+    const [readings, gs] = await Promise.all([readingsOf(p.id, transaction), getSettings(transaction)]);
+    return { aliquots: [], result: (await gravimetricResultOf(p, gs, transaction)) ?? null, gravimetricReadings: readings };
+  }
   const [aliquots, settings] = await Promise.all([DilutionAliquot.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction }), getSettings(transaction)]);
   const result = await dilutionResultOf(p, settings, transaction);
   return { aliquots, result: result ?? null };
@@ -305,6 +342,9 @@ export function excludedVerifiers(st: State): Map<number, string> {
   const a = st.dilution ? activeAliquot(st.dilution.aliquots) : undefined;
   if (a) add(a.recordedBy, 'you recorded the aliquot in this version');
   for (const c of st.dilution?.mix?.current ?? []) add(c.recordedBy, "you recorded a component's aliquot in this version");
+  const g = st.dilution?.gravimetricReadings ? activeReadings(st.dilution.gravimetricReadings) : undefined;
+  if (g) add(g.recordedBy, 'you recorded the readings in this version');
+  for (const e of st.dilution?.gravimetricReadings ?? []) if (e.recordedAt >= (lastAmend?.signedAt ?? '')) add(e.recordedBy, 'you entered or changed data in this version');
   const m = st.makeUps.at(-1);
   if (m) add(m.recordedBy, 'you recorded the make-up in this version');
   const since = lastAmend?.signedAt ?? '';
@@ -314,6 +354,11 @@ export function excludedVerifiers(st: State): Map<number, string> {
 
 function completeness(st: State): string | null {
   if (st.dilution?.mix) return mixCompleteness(st.dilution.mix, st.makeUps.length > 0);
+  if (st.dilution?.gravimetricReadings) {
+    if (!activeReadings(st.dilution.gravimetricReadings)) return 'record both readings (aliquot and final solution) first';
+    if (!st.dilution.result) return 'the dilution result has not been computed';
+    return null;
+  }
   if (st.dilution) {
     if (!activeAliquot(st.dilution.aliquots)) return 'record the aliquot first';
     if (!st.makeUps.length) return 'record the make-up first';

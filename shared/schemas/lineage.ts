@@ -10,6 +10,7 @@ import { CONCENTRATION_UNITS, isConcentrationUnit } from '../calc/units.ts';
 import type { DilutionResult, SeriesLevelProposal } from '../calc/dilution.ts';
 import type { VolumetricWare } from './inventory.ts';
 import type { PreparationDetail } from './preparations.ts';
+import type { GravimetricDilutionSection } from './gravimetric.ts';
 
 export type { DilutionResult, SeriesLevelProposal };
 
@@ -121,6 +122,9 @@ export interface Aliquot {
   recordedAt: string;
 }
 
+/** How a dilution is made: by volume (pipette and flask, DilutionSection) or by mass (GravimetricDilutionSection). */
+export type DilutionMethod = 'volumetric' | 'gravimetric';
+
 export interface DilutionSection {
   method: 'volumetric';
   parent: { id: number; identifier: string; snapshot: ParentSnapshot };
@@ -157,6 +161,8 @@ export interface MixSection {
 export interface LineageSection {
   kind: PreparationKind;
   dilution?: DilutionSection;
+  /** a gravimetric dilution (DilutionSection is the volumetric one; the method tells them apart) */
+  gravimetric?: GravimetricDilutionSection;
   mix?: MixSection;
   /** preparations made from this one (forward trace, TR-04) */
   children: Array<{ id: number; identifier: string; kind: PreparationKind; status: string }>;

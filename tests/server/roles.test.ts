@@ -98,6 +98,8 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/trace/:identifier/review-flags': 'trace.test.ts',
   'POST /api/preparations/:key/dilutions': 'lineage.test.ts',
   'POST /api/preparations/:key/aliquots': 'lineage.test.ts',
+  'POST /api/preparations/:key/gravimetric-dilutions': 'gravimetric-dilution.test.ts',
+  'POST /api/preparations/:key/gravimetric-readings': 'gravimetric-dilution.test.ts',
   'POST /api/series/proposal': 'lineage.test.ts',
   'POST /api/series': 'lineage.test.ts',
   'GET /api/series/:key': 'lineage.test.ts',

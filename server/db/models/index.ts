@@ -15,6 +15,7 @@ import { initPrinting } from './printing.model.ts';
 import { initSignatures } from './signature.model.ts';
 import { initMail } from './mail.model.ts';
 import { initLineage } from './lineage.model.ts';
+import { initGravimetric } from './gravimetric.model.ts';
 import { initExpiryExtensions } from './expiry-extension.ts';
 
 export { User } from './user.model.ts';
@@ -29,6 +30,7 @@ export { LabelPrint, LabelTemplate, type LabelSnapshot, type TemplateSnapshot } 
 export { Signature, RecordVersion, SignatureAcknowledgement, ReviewFlag } from './signature.model.ts';
 export { MailQueueItem, FakeMail, type MailStatus } from './mail.model.ts';
 export { PreparationParent, DilutionAliquot, Series } from './lineage.model.ts';
+export { GravimetricReading } from './gravimetric.model.ts';
 export { ExpiryExtension, expiryAsSigned } from './expiry-extension.ts';
 
 const bound = new WeakSet<Sequelize>();
@@ -44,6 +46,7 @@ export function initModels(sequelize: Sequelize) {
   initSignatures(sequelize);
   initMail(sequelize);
   initLineage(sequelize);
+  initGravimetric(sequelize);
   initExpiryExtensions(sequelize);
   bound.add(sequelize);
   return models;
