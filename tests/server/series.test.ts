@@ -358,6 +358,13 @@ describe('GET /api/series/:key/sheet.pdf', () => {
     expect(changes).toContain(series.levels[0].identifier);
   });
 
+  it.skipIf(!hasPoppler)('the glyphs as drawn keep the digits too (poppler pdftotext; the prep sheet once lost decimal points there)', () => {
+    const drawn = execFileSync('pdftotext', ['-', '-'], { input: pdf }).toString().replace(/\s+/g, ' ');
+    for (const l of series.levels) expect(drawn, l.planned.display).toContain(l.planned.display);
+    expect(drawn).toContain(series.parent.concentrationDisplay);
+    expect(drawn).not.toMatch(/(^|[\s(])\.\d/);
+  });
+
   it.skipIf(!hasPoppler)('its QR code decodes to the series identifier (pdftoppm at 150 dpi, zxing)', () => {
     expect(decodeQr(pdf)).toBe(first.series.identifier);
   });

@@ -55,6 +55,9 @@ export function SeriesDetailPage() {
     );
   const s = q.data;
   const p = s.parent;
+  // one expiry basis for the whole series is said once above the table; a level with another basis says its own
+  const reasons = [...new Set(s.levels.map((l) => l.expiryReason))];
+  const commonReason = reasons.length === 1 ? reasons[0] : undefined;
 
   return (
     <div className="flex flex-col gap-6">
@@ -134,6 +137,11 @@ export function SeriesDetailPage() {
           Each level is its own record: pipette the aliquot, make up to the mark, then sign and verify it. The concentration is the recomputed one once the aliquot
           and make-up are recorded, otherwise the planned one{tz ? `; times in ${tz}` : ''}.
         </p>
+        {commonReason ? (
+          <p className="mb-3" data-testid="series-expiry-basis">
+            <span className="font-semibold">Expiry of every level:</span> {commonReason}
+          </p>
+        ) : null}
         <div className="overflow-x-auto">
           <table className="w-full border-collapse text-left" data-testid="series-levels-table">
             <thead>
@@ -159,15 +167,18 @@ export function SeriesDetailPage() {
                   <tr key={l.id} className="border-b border-line align-top" data-testid={`series-level-${l.levelNo}`}>
                     <td className="num p-2 font-semibold">{l.levelNo}</td>
                     <td className="p-2">
-                      <Link to={`/preparations/${encodeURIComponent(l.identifier)}`} className="num inline-flex min-h-12 items-center font-semibold text-brass-600 underline" data-testid="series-level-link">
+                      <Link to={`/preparations/${encodeURIComponent(l.identifier)}`} className="num inline-flex min-h-12 items-center whitespace-nowrap font-semibold text-brass-600 underline" data-testid="series-level-link">
                         {l.identifier}
                       </Link>
                     </td>
-                    <td className="num p-2">
+                    <td className="num whitespace-nowrap p-2">
                       {l.target.value} {l.target.unit}
                     </td>
                     <td className="num p-2">
-                      {aliquotText(l)}
+                      <span className="whitespace-nowrap">{l.aliquot.volumeMl} mL</span>
+                      <span className="block whitespace-nowrap text-sm text-ink-soft" title={aliquotText(l)}>
+                        {l.aliquot.pipette.identifier}
+                      </span>
                       {l.aliquotRecorded ? (
                         <span className="block text-sm text-ink-soft">
                           delivered {l.aliquotRecorded.volumeMl} mL with {l.aliquotRecorded.pipetteIdentifier}
@@ -175,7 +186,8 @@ export function SeriesDetailPage() {
                       ) : null}
                     </td>
                     <td className="num p-2">
-                      {l.flask.identifier} <span className="text-ink-soft">({l.flask.nominalVolumeMl} mL)</span>
+                      <span className="whitespace-nowrap">{l.flask.identifier}</span>
+                      <span className="block whitespace-nowrap text-sm text-ink-soft">{l.flask.nominalVolumeMl} mL</span>
                     </td>
                     <td className="num p-2" data-testid="series-level-conc">
                       <span className={c.basis === 'recomputed' ? 'text-lg font-semibold' : ''}>{c.text}</span>
@@ -183,8 +195,8 @@ export function SeriesDetailPage() {
                       {c.basis === 'recomputed' ? <span className="block text-sm text-ink-soft">planned {l.planned.display}</span> : null}
                     </td>
                     <td className="num p-2">
-                      {l.expiresOn}
-                      <span className="block font-sans text-sm text-ink-soft">{l.expiryReason}</span>
+                      <span className="whitespace-nowrap">{l.expiresOn}</span>
+                      {commonReason ? null : <span className="block font-sans text-sm text-ink-soft">{l.expiryReason}</span>}
                     </td>
                     <td className="p-2">
                       <StatusBadge status={l.status} testId="series-level-status" />
