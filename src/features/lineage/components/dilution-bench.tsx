@@ -13,6 +13,7 @@ import type { Aliquot, LineageSection } from '../../../../shared/schemas/lineage
 import { MakeUpForm } from '../../preparations/components/make-up-form.tsx';
 import { formatLabTime, percent } from '../../preparations/format.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
+import { useAuth } from '../../auth/use-auth.ts';
 import { aliquotFieldsFor, wareKindLabel } from './aliquot-fields.ts';
 import { AliquotForm } from './aliquot-form.tsx';
 
@@ -208,7 +209,7 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
         </Panel>
       </div>
 
-      <Panel title={<Step n={3} done={d.status !== 'planned' && d.status !== 'returned'}>Concentration and signature</Step>} id="bench-dilution-result">
+      <Panel title={<Step n={3} done={d.status === 'prepared' || d.status === 'verified'}>Concentration and signature</Step>} id="bench-dilution-result">
         {result ? (
           <div className="flex flex-col gap-3">
             <p className="text-sm font-semibold text-ink-soft">Concentration from the recorded aliquot and make-up (expanded uncertainty, k = {result.k})</p>
@@ -234,6 +235,19 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
 const LINK = 'inline-flex min-h-14 items-center rounded-lg border-2 border-slate-700 px-6 text-lg font-semibold';
 
 function NextStep({ d, keyPath }: { d: PreparationDetail; keyPath: string }) {
+  const auth = useAuth();
+  const chemist = auth.status === 'signed-in' && auth.user.role === 'chemist';
+  if ((d.status === 'planned' || d.status === 'returned') && !chemist) {
+    // technicians do the bench work; a chemist signs "prepared"
+    return (
+      <p data-testid="bench-next-step">
+        Next: a chemist opens the record and signs it prepared.{' '}
+        <Link to={`/preparations/${keyPath}`} className="font-semibold text-brass-600 underline">
+          Open the record
+        </Link>
+      </p>
+    );
+  }
   if (d.status === 'planned' || d.status === 'returned') {
     return (
       <p>
