@@ -16,6 +16,8 @@ import type { Weighing } from './types.ts';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge } from '../signatures/components/status-badge.tsx';
 import { isDilution } from '../lineage/components/lineage-section.tsx';
 import { DilutionBench } from '../lineage/components/dilution-bench.tsx';
+import { MixBench } from '../mixes/components/mix-bench.tsx';
+import { isMix } from '../mixes/components/mix-panel.tsx';
 
 /** The bench view: target and window huge, then record the weighing and the make-up. Glove-sized targets. */
 export function BenchPage() {
@@ -41,7 +43,7 @@ export function BenchPage() {
   const current = d.weighings.filter((w) => !w.supersededById);
   const latest = current[current.length - 1];
   // A volumetric dilution has no weighing: the aliquot, make-up and result panels replace target and weighing.
-  const dilution = isDilution(d);
+  const dilution = isDilution(d) || isMix(d); // a mix has no weighing either (MixBench)
 
   return (
     <div className="flex flex-col gap-6">
@@ -109,6 +111,7 @@ export function BenchPage() {
       <ReviewFlagBanner d={d} timeZone={tz} />
 
       {dilution ? <DilutionBench d={d} timeZone={tz} /> : null}
+      {isMix(d) ? <MixBench d={d} timeZone={tz} /> : null}
 
       {saved ? (
         <Banner tone="ok" title="Saved" testId="bench-saved">

@@ -16,6 +16,7 @@ import type { MakeUp, PreparationDetail } from './types.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
 import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
 import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
+import { MixAction, MixInputs, MixPanel, isMix } from '../mixes/components/mix-panel.tsx';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
 
 function Facts({ rows, testId }: { rows: [string, ReactNode][]; testId?: string }) {
@@ -171,6 +172,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
       ) : null}
 
       {!verification ? <DilutionActions d={d} /> : null}
+      {!verification ? <MixAction d={d} /> : null}
 
       {canOpenPrint ? (
         <div>
@@ -192,6 +194,8 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
             {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume {qty(d.result.volume)}.
           </p>
         </Panel>
+      ) : isMix(d) ? (
+        <MixPanel d={d} />
       ) : isDilution(d) ? (
         <DilutionPlanPanel d={d} />
       ) : (
@@ -216,7 +220,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </Panel>
       ) : null}
 
-      {isDilution(d) ? null : (
+      {isDilution(d) || isMix(d) ? null : (
       <Panel title="Plan" id="detail-plan">
         <Facts
           testId="detail-plan-facts"
@@ -239,7 +243,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
       </Panel>
 
       <Panel title="Inputs as frozen at planning" id="detail-snapshot">
-        <Snapshot d={d} />
+        {isMix(d) ? <MixInputs d={d} /> : <Snapshot d={d} />}
       </Panel>
 
       <Panel title="Weighings" id="detail-weighings">

@@ -37,9 +37,13 @@ export function AliquotForm({
   correcting,
   onDone,
   onCancel,
+  componentId,
 }: {
   detail: PreparationDetail;
-  dilution: DilutionSection;
+  /** a dilution's section, or a mix component (its plannedAliquot) */
+  dilution: Pick<DilutionSection, 'plannedAliquot'>;
+  /** a mix only: the component (MixComponent.linkId) this aliquot is for */
+  componentId?: number;
   /** the current aliquot when this entry corrects it */
   correcting?: Aliquot | null;
   onDone: (next: PreparationDetail) => void;
@@ -64,7 +68,7 @@ export function AliquotForm({
   const onSubmit = handleSubmit((v) => {
     setBanner(null);
     const input = toAliquotInput(v, { fields, plannedIdentifier: planned.pipette.identifier, ...(correcting ? { supersedesId: correcting.id } : {}) });
-    record.mutate(input, {
+    record.mutate(componentId !== undefined ? { ...input, componentId } : input, {
       onSuccess: (next) => {
         form.reset();
         onDone(next);
