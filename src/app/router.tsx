@@ -71,11 +71,6 @@ export const router = createBrowserRouter([
             children: [{ path: 'new', lazy: async () => ({ Component: (await import('../features/mixes/mix-page.tsx')).MixPage }) }],
           },
           {
-            path: 'mixes',
-            element: <RequireRole roles={['chemist']} />,
-            children: [{ path: 'new', lazy: async () => ({ Component: (await import('../features/mixes/mix-page.tsx')).MixPage }) }],
-          },
-          {
             path: 'trace',
             element: <RequireRole roles={['qa', 'admin', 'chemist']} />,
             children: [{ index: true, lazy: async () => ({ Component: (await import('../features/trace/trace-page.tsx')).TracePage }) }],
