@@ -83,7 +83,7 @@ export const expiryExtensionInputSchema = z.object({
   newExpiresOn: z
     .string({ error: 'Enter the new expiry date' })
     .trim()
-    .min(1, 'Enter the new expiry date')
+    .min(1, { error: 'Enter the new expiry date', abort: true })
     .refine(isIsoDate, 'Enter the new expiry as a calendar date YYYY-MM-DD, e.g. 2027-03-01'),
   reason: z
     .string({ error: 'Give the reason and the evidence for the extension' })

@@ -18,6 +18,7 @@ import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '..
 import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
 import { MixAction, MixInputs, MixPanel, isMix } from '../mixes/components/mix-panel.tsx';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
+import { ExpiredBanner, ExpiryPanel } from '../expiry/components/expiry-panel.tsx';
 
 function Facts({ rows, testId }: { rows: [string, ReactNode][]; testId?: string }) {
   return (
@@ -156,6 +157,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
       </PageHeader>
 
       <ReviewFlagBanner d={d} timeZone={tz} />
+      <ExpiredBanner d={d} />
 
       {!verification ? <SignActions d={d} /> : null}
 
@@ -209,6 +211,10 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
 
       <Panel title="Signatures" id="detail-signatures">
         <SignaturesPanel signatures={d.signatures} timeZone={tz} />
+      </Panel>
+
+      <Panel title="Expiry" id="detail-expiry-section">
+        <ExpiryPanel d={d} timeZone={tz} />
       </Panel>
 
       {d.result && d.result.budget.length > 0 ? (

@@ -48,7 +48,7 @@ export function SignActions({ d }: { d: PreparationDetail }) {
 
   const showPrepare = role === 'chemist' && d.stage === 'complete' && (d.status === 'planned' || d.status === 'returned');
   const showVerify = role === 'chemist' && d.status === 'prepared';
-  const showDiscard = (role === 'chemist' || role === 'qa') && d.status !== 'discarded' && d.status !== 'expired';
+  const showDiscard = (role === 'chemist' || role === 'qa') && d.status !== 'discarded'; // an expired record can be discarded (expired → discarded)
   const notComplete = role === 'chemist' && d.stage !== 'complete' && (d.status === 'planned' || d.status === 'returned');
 
   const hasReason = d.status === 'returned' || d.status === 'discarded';

@@ -81,12 +81,13 @@ export function ReviewFlagBanner({ d, timeZone }: { d: Pick<PreparationDetail, '
 }
 
 /** One-line explanation of what the status means for the reader, with the amendment note. */
-export function StatusExplainer({ d }: { d: Pick<PreparationDetail, 'status' | 'amendedFromVersion' | 'version'> }) {
+export function StatusExplainer({ d }: { d: Pick<PreparationDetail, 'status' | 'amendedFromVersion' | 'version'> & Partial<Pick<PreparationDetail, 'statusBeforeExpiry'>> }) {
   const t = statusText(d.status);
   return (
     <p data-testid="status-explainer">
       <span className="font-semibold text-ink">{t.label}</span>
       {t.hint ? `: ${t.hint}.` : '.'}
+      {d.statusBeforeExpiry ? ` Stored status before it expired: ${statusText(d.statusBeforeExpiry).label.toLowerCase()}.` : ''}
       {d.amendedFromVersion ? ` Changed after signing (v ${d.amendedFromVersion} → v ${d.version}): the earlier signatures no longer apply; it must be signed as prepared and verified again.` : ''}
     </p>
   );
