@@ -400,3 +400,17 @@ describe('a change after an extension (CO-02)', () => {
     expect(res.body.signatures.map((s: any) => [s.meaning, s.valid])).toEqual([['prepared', false], ['verified', false], ['amended', true]]);
   });
 });
+
+describe('lockout (REQUIREMENTS PW-03; the signature service counts signing failures)', () => {
+  it('consecutive wrong passwords at extension lock the QA account (423), audited', async () => {
+    const statuses: number[] = [];
+    for (let i = 0; i < t.config.lockoutThreshold; i++) statuses.push((await extend('qa', made.verified.identifier, { password: `wrong-${i}` })).status);
+    expect(statuses.slice(0, -1).every((s) => s === 401)).toBe(true);
+    expect(statuses.at(-1)).toBe(423);
+    const locked = await extend('qa', made.verified.identifier);
+    expect(locked.status).toBe(423);
+    expectErrorBody(locked.body, 'account_locked');
+    expect(await AuditEntry.count({ where: { action: 'account_locked' } })).toBe(1);
+    expect(await ExpiryExtension.count({ where: { preparationId: made.verified.id } })).toBe(0);
+  });
+});
