@@ -11,7 +11,7 @@ import { Document, Image, Page, StyleSheet, Text, View } from '@react-pdf/render
 import type { ReactNode } from 'react';
 import type { AuditEntryDto } from '../../shared/schemas/audit.ts';
 import type { BudgetEntry, PreparationDetail, Signature, Weighing } from '../../shared/schemas/preparations.ts';
-import type { DilutionSection } from '../../shared/schemas/lineage.ts';
+import type { DilutionSection, MixComponent, MixSection } from '../../shared/schemas/lineage.ts';
 import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay, percent, shortDecimal } from './format.ts';
@@ -237,7 +237,7 @@ function inputRows(d: PreparationDetail): string[][] {
 const dilutionOf = (d: PreparationDetail): DilutionSection | undefined => (d as PreparationDetail & { dilution?: DilutionSection }).dilution;
 
 const wareText = (w: { identifier: string; kind: string; nominalVolumeMl: string; class?: string | null; toleranceMl?: string | null }) =>
-  `${w.identifier}: ${w.kind.replace(/_/g, ' ')}, ${w.nominalVolumeMl} mL${w.class ? `, class ${w.class}` : ''}${w.toleranceMl ? `, tolerance ±${w.toleranceMl} mL` : ''}`;
+  `${w.identifier}: ${w.kind.replace(/_/g, ' ')}, ${w.nominalVolumeMl} mL${w.class && w.class !== 'n/a' ? `, class ${w.class}` : ''}${w.toleranceMl ? `, tolerance ±${w.toleranceMl} mL` : ''}`;
 
 function dilutionInputRows(d: PreparationDetail, dil: DilutionSection): string[][] {
   const p = dil.parent.snapshot;
@@ -282,6 +282,111 @@ function DilutionCalculationText({ dil }: { dil: DilutionSection }) {
   );
 }
 
+// ------------------------------------------------------------------ mixes (several parents into one flask; METROLOGY §5.5 per analyte)
+
+/** The mix section of a mix's detail; undefined otherwise. */
+const mixOf = (d: PreparationDetail): MixSection | undefined => (d as PreparationDetail & { mix?: MixSection }).mix;
+
+/** One component of a mix in the shape of a dilution, so its calculation reads like one. */
+const mixComponentAsDilution = (mix: MixSection, c: MixComponent): DilutionSection => ({
+  method: 'volumetric',
+  parent: c.parent,
+  plannedAliquot: c.plannedAliquot,
+  plannedFinalMl: mix.plannedFinalMl,
+  planned: c.planned,
+  aliquots: c.aliquots,
+  ...(c.result ? { result: c.result } : {}),
+});
+
+function mixInputRows(d: PreparationDetail, mix: MixSection): string[][] {
+  const f = d.makeUp?.flask.snapshot ?? d.snapshot.flask;
+  const rows: string[][] = mix.components.flatMap((c) => {
+    const p = c.parent.snapshot;
+    return [
+      [`${c.analyteFormula}: parent concentration c1`, `${p.concentration.display} (u = ${shortDecimal(p.concentration.standardUncertainty, 6)} ${p.concentration.unit})`, `parent ${p.identifier} v${p.version}, ${p.status} when used, expires ${p.expiresOn}`],
+      [`${c.analyteFormula}: planned aliquot Vp`, `${c.plannedAliquot.volumeMl} mL`, wareText(c.plannedAliquot.pipette.snapshot)],
+    ];
+  });
+  rows.push(['Final volume Vf (every analyte)', `${mix.plannedFinalMl} mL`, f ? wareText(f) : 'planned volume']);
+  if (d.makeUp) rows.push(['Solution temperature', `${d.makeUp.solutionTemperatureC} °C`, `entered at make-up by ${d.makeUp.recordedBy.fullName}`]);
+  return rows;
+}
+
+function MixAliquots({ mix, tz }: { mix: MixSection; tz: string }) {
+  const rows = mix.components.flatMap((c) =>
+    c.aliquots.map((a) => [
+      String(a.id),
+      c.analyteFormula,
+      wareText(a.pipette.snapshot) + (a.pipette.identifier !== c.plannedAliquot.pipette.identifier ? ' (substituted for the planned pipette)' : ''),
+      `${a.volumeMl} mL`,
+      `${a.recordedBy.fullName}, ${labDateTime(a.recordedAt, tz)}`,
+      [a.supersedesId ? `corrects #${a.supersedesId}: ${dash(a.correctionReason)}` : '', a.supersededById ? `SUPERSEDED by #${a.supersededById}` : ''].filter(Boolean).join('; '),
+    ]),
+  );
+  const missing = mix.components.filter((c) => !c.aliquots.some((a) => !a.supersededById));
+  return (
+    <Section title="Aliquots, one per analyte (as recorded; superseded entries stay listed)">
+      {rows.length ? (
+        <Table
+          cols={[
+            { title: '#', width: '6%' },
+            { title: 'Analyte', width: '9%' },
+            { title: 'Pipette', width: '31%' },
+            { title: 'Volume', width: '10%' },
+            { title: 'Recorded', width: '22%' },
+            { title: 'Notes', width: '22%' },
+          ]}
+          rows={rows}
+        />
+      ) : null}
+      {missing.map((c) => (
+        <T key={c.linkId} style={s.para}>{`No aliquot of ${c.analyteFormula} recorded yet. Planned: ${c.plannedAliquot.volumeMl} mL of ${c.parent.identifier} with ${c.plannedAliquot.pipette.identifier}.`}</T>
+      ))}
+    </Section>
+  );
+}
+
+function MixCalculationText({ mix }: { mix: MixSection }) {
+  return (
+    <View>
+      {mix.components.map((c) => (
+        <View key={c.linkId}>
+          <T style={s.bold}>{`${c.analyteFormula} (from ${c.parent.identifier})`}</T>
+          <DilutionCalculationText dil={mixComponentAsDilution(mix, c)} />
+        </View>
+      ))}
+    </View>
+  );
+}
+
+function MixBudgets({ mix }: { mix: MixSection }) {
+  return (
+    <View>
+      {mix.components.map((c) =>
+        c.result ? (
+          <View key={c.linkId}>
+            <T style={s.bold}>{c.analyteFormula}</T>
+            <Table
+              cols={[
+                { title: 'Input', width: '30%' },
+                { title: 'Value', width: '17%' },
+                { title: 'Standard uncertainty', width: '15%' },
+                { title: 'Sensitivity', width: '14%' },
+                { title: 'Contribution', width: '14%' },
+                { title: 'Share', width: '10%' },
+              ]}
+              rows={budgetRows(c.result.budget.map((b) => ({ ...b, unit: b.input === 'parent' ? c.result!.unit : b.input === 'aliquot' || b.input === 'final' ? 'mL' : '1' })))}
+            />
+            <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(c.result.standardUncertainty, 6)} ${c.result.unit}; U = ${shortDecimal(c.result.expandedUncertainty, 6)} ${c.result.unit} (k = ${c.result.k}).`}</T>
+          </View>
+        ) : (
+          <T key={c.linkId} style={s.para}>{`${c.analyteFormula}: expected at planning ${c.planned.display}; the budget is computed with the result.`}</T>
+        ),
+      )}
+    </View>
+  );
+}
+
 function SignatureBlock({ sigs, tz }: { sigs: Signature[]; tz: string }) {
   if (!sigs.length) return <Text style={s.para}>No signatures yet.</Text>;
   return (
@@ -310,6 +415,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
   const activeWeighings = d.weighings;
   const dil = dilutionOf(d);
   const dr = dil?.result;
+  const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
   const title = `${d.identifier} v${d.version}`;
   return (
     <Document title={`Prep sheet ${title}`} author={data.lab.name} creator="Tarebook" producer="Tarebook" creationDate={new Date(data.generatedAt)}>
@@ -334,7 +440,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         <View style={[s.row, { justifyContent: 'space-between' }]}>
           <View style={{ flex: 1, paddingRight: 10 }}>
             <T style={s.big}>{`${d.materialName} — ${d.analyteFormula}`}</T>
-            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : dr ? dr.display : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
+            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : dr ? dr.display : mix ? (d.concentrationDisplay ?? `No result yet (planned: ${mix.components.map((c) => `${c.analyteFormula} ${c.planned.display}`).join('; ')})`) : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
             {dr && !d.result ? (
               <T style={s.small}>{`c = ${shortDecimal(dr.value, 6)} ${dr.unit}; expanded uncertainty U = ${shortDecimal(dr.expandedUncertainty, 4)} ${dr.unit} (k = ${dr.k}, about 95 % coverage); diluted from ${dil!.parent.identifier}`}</T>
             ) : null}
@@ -372,7 +478,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               { title: 'Value', width: '34%' },
               { title: 'Source', width: '40%' },
             ]}
-            rows={dil ? dilutionInputRows(d, dil) : inputRows(d)}
+            rows={dil ? dilutionInputRows(d, dil) : mix ? mixInputRows(d, mix) : inputRows(d)}
           />
         </Section>
 
@@ -399,6 +505,8 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               <Text style={s.para}>{`No aliquot recorded yet. Planned: ${dil.plannedAliquot.volumeMl} mL of ${dil.parent.identifier} with ${dil.plannedAliquot.pipette.identifier}.`}</Text>
             )}
           </Section>
+        ) : mix ? (
+          <MixAliquots mix={mix} tz={tz} />
         ) : (
         <Section title="Weighings (as read; superseded entries stay listed)">
           {activeWeighings.length ? (
@@ -454,7 +562,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         </Section>
 
         <Section title="Calculation">
-          {dil ? <DilutionCalculationText dil={dil} /> : <CalculationText d={d} />}
+          {dil ? <DilutionCalculationText dil={dil} /> : mix ? <MixCalculationText mix={mix} /> : <CalculationText d={d} />}
         </Section>
 
         <Section title="Uncertainty budget (GUM)">
@@ -488,6 +596,8 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               />
               <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(dr.standardUncertainty, 6)} ${dr.unit}; U = ${shortDecimal(dr.expandedUncertainty, 6)} ${dr.unit} (k = ${dr.k}).`}</T>
             </View>
+          ) : mix ? (
+            <MixBudgets mix={mix} />
           ) : (
             <T style={s.para}>{`Expected at planning: ${dil ? dil.planned.display : d.plan.expectedUncertainty.display}. The budget is computed with the result.`}</T>
           )}

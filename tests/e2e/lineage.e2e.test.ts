@@ -17,10 +17,12 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import type { Browser, Page } from 'playwright-core';
 import { D } from '../../shared/calc/decimal.ts';
 import { volumetricDilution } from '../../shared/calc/dilution.ts';
+import { mkdirSync, writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { PDFParse } from 'pdf-parse';
 import { classATolerance } from '../../shared/prep/index.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
-import { launchBrowser, openPage, screenshot, signIn, startServer, type RunningServer, type WatchedPage } from './harness.ts';
+import { ARTIFACTS, launchBrowser, openPage, screenshot, signIn, startServer, type RunningServer, type WatchedPage } from './harness.ts';
 
 const PASSWORD = 'bench-demo-2026'; // the seeded demo lab's shared demo password (README)
 const CHEMIST = 'chemist@harbourside.example';
@@ -360,7 +362,10 @@ describe('working standards and trace', () => {
     expect(labelText).toContain(core.display); // the default (full) template prints the value ± U with k
     expect(labelText).not.toMatch(/planned/i);
     // The prep sheet of a dilution: the parent as used, the aliquot, c2 = c1·Vp/Vf and the result (no weighing plan).
-    const sheetText = await pdfText(await (await page.request.get(`${server.baseUrl}/api/preparations/${level3}/prep-sheet.pdf`)).body());
+    const sheetPdf = await (await page.request.get(`${server.baseUrl}/api/preparations/${level3}/prep-sheet.pdf`)).body();
+    mkdirSync(ARTIFACTS, { recursive: true });
+    writeFileSync(join(ARTIFACTS, 'lineage-level-prep-sheet.pdf'), sheetPdf); // to look at (pdftoppm)
+    const sheetText = await pdfText(sheetPdf);
     expect(sheetText).toContain(core.display);
     expect(sheetText).toContain(`Aliquot of the parent ${pbStock}`);
     expect(sheetText).toContain('VERIFIED');
