@@ -22,12 +22,11 @@ import { AppError } from '../errors/app-error.ts';
 import { qrPng } from '../pdf/barcodes.ts';
 import { renderSeriesSheet } from '../pdf/series-sheet.tsx';
 import { recordAudit } from './audit.service.ts';
+import { SERIES_ID_RE } from '../../shared/prep/identifiers.ts';
 import { hazardsFor } from './preparation-hazards.ts';
 import { getPreparation, labDate, type Actor } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 
-/** Series identifier as issued by createSeries (lab prefix, year, "S", running number), e.g. HWL-2026-S001. */
-export const SERIES_ID_RE = /^[A-Z][A-Z0-9]{1,7}-\d{4}-S\d{3,}$/;
 const NUMERIC_ID_RE = /^[1-9]\d{0,15}$/;
 
 /** 400 for a key that can be neither an id nor a series identifier; 404 for a well-formed key with no series. */

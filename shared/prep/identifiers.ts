@@ -10,6 +10,8 @@ import { z } from 'zod';
 export const PREFIX_RE = /^[A-Z]{2,6}$/;
 /** Canonical identifier: no leading zeros beyond the 4-digit padding. */
 export const PREPARATION_ID_RE = /^([A-Z]{2,6})-(\d{4})-(\d{4}|[1-9]\d{4,})$/;
+/** Calibration series identifier: prefix, year, "S", running number of at least 3 digits, e.g. "HWL-2026-S001". */
+export const SERIES_ID_RE = /^[A-Z][A-Z0-9]{1,7}-\d{4}-S\d{3,}$/;
 
 export interface PreparationId {
   prefix: string;

@@ -4,7 +4,7 @@
  */
 import { describe, expect, it } from 'vitest';
 import { ScanBuffer, SCAN_GAP_MS } from '../../src/features/scan/scan-buffer.ts';
-import { cleanScan, preparationIdentifierIn } from '../../src/features/scan/resolve-scan.ts';
+import { cleanScan, preparationIdentifierIn, seriesIdentifierIn } from '../../src/features/scan/resolve-scan.ts';
 import { EMPTY_TEMPLATE, formFieldFor, parseTemplateForm, templateToForm, type TemplateFormValues } from '../../src/features/printing/template-form.ts';
 import { pagesFor, templateLayout } from '../../src/features/printing/format.ts';
 
@@ -146,5 +146,20 @@ describe('label template form', () => {
     expect(templateLayout(stored)).toBe('roll, one label per page');
     expect(pagesFor({ labelsPerPage: 65 }, 130)).toBe(2); // 130 / 65 (arithmetic)
     expect(pagesFor({ labelsPerPage: 65 }, 131)).toBe(3);
+  });
+});
+
+describe('seriesIdentifierIn', () => {
+  it('when the series sheet QR code (the identifier) or a series link is scanned, then the series identifier is found', () => {
+    expect(seriesIdentifierIn('HWL-2026-S001')).toBe('HWL-2026-S001');
+    expect(seriesIdentifierIn(' hwl-2026-s012\r')).toBe('HWL-2026-S012'); // lower case, trailing CR from a scanner
+    expect(seriesIdentifierIn('https://lab.example/series/HWL-2026-S003?x=1')).toBe('HWL-2026-S003');
+  });
+
+  it('when a preparation or inventory code is scanned, then it is not a series', () => {
+    expect(seriesIdentifierIn('HWL-2026-0001')).toBeNull();
+    expect(seriesIdentifierIn('BAL-A1')).toBeNull();
+    expect(seriesIdentifierIn('HWL-26-S001')).toBeNull();
+    expect(preparationIdentifierIn('HWL-2026-S001')).toBeNull(); // and a series is not taken for a preparation
   });
 });

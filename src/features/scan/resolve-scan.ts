@@ -2,12 +2,14 @@
  * What a scanned (or typed) code opens. Scanners type the code and press Enter.
  *  - a preparation identifier ("HWL-2026-0042"), also inside a record link such as
  *    "https://lab.example/preparations/HWL-2026-0042" (the QR code on the prep sheet) → the record;
+ *  - a calibration series identifier ("HWL-2026-S001", the QR code on the series sheet), also inside a
+ *    "/series/HWL-2026-S001" link → the series page;
  *  - otherwise an inventory code: a balance or volumetric-ware identifier ("BAL-A1", "VF-100-01"),
  *    or the lot of a reference material or solvent → that inventory page;
  *  - anything else → "not found".
  */
 import { api } from '../../lib/api-client.ts';
-import { PREPARATION_ID_RE } from '../../../shared/prep/identifiers.ts';
+import { PREPARATION_ID_RE, SERIES_ID_RE } from '../../../shared/prep/identifiers.ts';
 
 export type ScanTarget = { kind: 'found'; to: string; label: string } | { kind: 'not-found'; code: string };
 
@@ -25,6 +27,15 @@ export function preparationIdentifierIn(raw: string): string | null {
   const m = /\/preparations\/([A-Za-z]{2,6}-\d{4}-\d{4,})(?:[/?#]|$)/.exec(text);
   if (m && PREPARATION_ID_RE.test(m[1]!.toUpperCase())) return m[1]!.toUpperCase();
   return null;
+}
+
+/** The calibration series identifier in a scan, or null. */
+export function seriesIdentifierIn(raw: string): string | null {
+  const text = cleanScan(raw);
+  const direct = text.toUpperCase();
+  if (SERIES_ID_RE.test(direct)) return direct;
+  const m = /\/series\/([A-Za-z][A-Za-z0-9]{1,7}-\d{4}-[Ss]\d{3,})(?:[/?#]|$)/.exec(text);
+  return m ? m[1]!.toUpperCase() : null;
 }
 
 type Row = { id: number; identifier?: string; lot?: string; name?: string };
@@ -52,6 +63,8 @@ export async function resolveScan(raw: string): Promise<ScanTarget> {
   const code = cleanScan(raw);
   const prep = preparationIdentifierIn(code);
   if (prep) return { kind: 'found', to: `/preparations/${encodeURIComponent(prep)}`, label: `Preparation ${prep}` };
+  const series = seriesIdentifierIn(code);
+  if (series) return { kind: 'found', to: `/series/${encodeURIComponent(series)}`, label: `Calibration series ${series}` };
   if (code === '') return { kind: 'not-found', code };
   const hits = await Promise.all(REGISTERS.map((r) => findIn(r, code)));
   for (let i = 0; i < REGISTERS.length; i++) {

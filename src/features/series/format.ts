@@ -1,8 +1,6 @@
 /** Display helpers for calibration series. Values stay the API's decimal strings and display texts. */
+import { SERIES_ID_RE } from '../../../shared/prep/identifiers.ts';
 import type { SeriesLevelDetail } from '../../../shared/schemas/lineage.ts';
-
-/** A series identifier as issued by the server, e.g. "HWL-2026-S001" (what a scanner or a link carries). */
-export const SERIES_ID_RE = /^[A-Z][A-Z0-9]{1,7}-\d{4}-S\d{3,}$/;
 
 export function isSeriesIdentifier(text: string): boolean {
   return SERIES_ID_RE.test(text.trim().toUpperCase());
