@@ -9,7 +9,7 @@
  */
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { CalcError, D } from '../../shared/calc/index.ts';
-import { proposeSeries, type SeriesWare } from '../../shared/calc/dilution.ts';
+import { pistonSetting, pistonStepMl, proposeSeries, type SeriesWare } from '../../shared/calc/dilution.ts';
 import { classATolerance, formatPreparationId, parsePreparationId } from '../../shared/prep/index.ts';
 import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type {
@@ -106,6 +106,10 @@ export function aliquotVolume(p: WareDto, typed: string | undefined, field: stri
   const n = new D(p.nominalVolumeMl);
   if (new D(v).gt(n) || new D(v).lt(n.mul('0.1'))) {
     throw AppError.validation(`${v} mL is outside the range of ${p.identifier}`, { [field]: `Set ${p.identifier} between ${n.mul('0.1').toString()} and ${n.toString()} mL (10 % of nominal to nominal)` });
+  }
+  const step = pistonStepMl(n);
+  if (!new D(v).mod(step).isZero()) {
+    throw AppError.validation(`${p.identifier} cannot be set to ${v} mL`, { [field]: `${p.identifier} is set in steps of ${step.toString()} mL: use ${pistonSetting(v, n).toString()} mL` });
   }
   return v;
 }

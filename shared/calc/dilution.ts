@@ -221,6 +221,21 @@ export interface ProposeSeriesInput {
 
 const EXACT = new D('1e-12');
 
+/**
+ * The smallest step a piston pipette's volume can be set in, mL: a thousandth of its nominal volume
+ * (a 1000 µL pipette sets in 1 µL steps, a 100 µL one in 0.1 µL, a 10 mL one in 10 µL). Common practice for
+ * adjustable pipettes with a four-digit counter; from memory of makers' data, not from ISO 8655.
+ */
+export function pistonStepMl(nominalVolumeMl: DecInput): Dec {
+  return toDec(nominalVolumeMl, 'pipette volume').div(1000);
+}
+
+/** A wanted volume rounded to the nearest setting of the piston pipette (half-even), mL. */
+export function pistonSetting(wantedMl: DecInput, nominalVolumeMl: DecInput): Dec {
+  const step = pistonStepMl(nominalVolumeMl);
+  return toDec(wantedMl, 'aliquot volume').div(step).toDecimalPlaces(0, D.ROUND_HALF_EVEN).mul(step);
+}
+
 function tolU(w: SeriesWare): Dec | null {
   if (!w.toleranceMl) return null;
   return w.kind === 'piston_pipette' ? rectangular(w.toleranceMl) : triangular(w.toleranceMl);
@@ -257,7 +272,7 @@ export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
           if (nominal.lt(minAliquot)) continue;
           va = nominal;
         } else {
-          va = ratio.mul(vf).toSignificantDigits(6);
+          va = pistonSetting(ratio.mul(vf), nominal);
           if (va.gt(nominal) || va.lt(nominal.mul('0.1'))) continue;
         }
         if (va.gte(vf)) continue;

@@ -102,6 +102,15 @@ describe('POST /api/preparations/:key/dilutions', () => {
     expect(node?.detail?.kind).toBe('dilution');
   });
 
+  it('a piston pipette is planned only at a volume it can be set to (steps of a thousandth of nominal, common practice)', async () => {
+    // PP-1000-01 (1.000 mL) sets in 0.001 mL steps: 0.9995 mL cannot be set, 0.999 mL can
+    const bad = await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody({ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['PP-1000-01'], aliquotMl: '0.9995' }));
+    expect(bad.status, JSON.stringify(bad.body)).toBe(400);
+    expect(Object.values(bad.body.error.fields ?? {}).join(' ')).toMatch(/steps of 0\.001 mL: use 1 mL|steps of 0\.001 mL: use 0\.999 mL/);
+    const ok = await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody({ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['PP-1000-01'], aliquotMl: '0.999' }));
+    expect(ok.status, JSON.stringify(ok.body)).toBe(201);
+  });
+
   it('at the bench: the aliquot (pipette confirmed) and the make-up give the result; a weighing is refused 409', async () => {
     const d = (await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody())).body;
     const wrong = await send('technician', 'post', `/api/preparations/${d.identifier}/aliquots`, { pipetteIdentifier: 'BP-2-01' });

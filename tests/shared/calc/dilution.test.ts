@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { D, CalcError, triangular } from '../../../shared/calc/index.ts';
-import { gravimetricDilution, proposeSeries, volumetricDilution, type SeriesWare } from '../../../shared/calc/dilution.ts';
+import { gravimetricDilution, pistonSetting, pistonStepMl, proposeSeries, volumetricDilution, type SeriesWare } from '../../../shared/calc/dilution.ts';
 import { expectClose } from '../../helpers/decimal.ts';
 
 // METROLOGY §5.5 worked example [C]: 1.000 mL ISO 648 class A (±0.008, triangular) into 100 mL (±0.10,
@@ -162,6 +162,21 @@ describe('calibration series proposal', () => {
     expect(p[0]!.choice!.pipette.identifier).toBe('PP-1000');
     expect(p[0]!.choice!.aliquotMl).toBe('0.7');
     expect(p[0]!.choice!.flask.identifier).toBe('VF-100');
+  });
+
+  it('sets a piston pipette only in steps it can be set to (a thousandth of nominal, common practice, from memory)', () => {
+    // 1000 mg/L → 3.33 mg/L in 100 mL wants 0.333 mL; a 1 mL piston pipette sets in 0.001 mL, so 0.333 mL exactly.
+    expect(pistonStepMl('1').toString()).toBe('0.001');
+    expect(pistonStepMl('0.1').toString()).toBe('0.0001');
+    expect(pistonSetting('0.33301', '1').toString()).toBe('0.333');
+    expect(pistonSetting('0.9990099', '1').toString()).toBe('0.999'); // never an unsettable 0.99901 mL
+    expect(pistonSetting('0.01245', '0.1').toString()).toBe('0.0124'); // a tie goes to the even step (half-even)
+    const p = proposeSeries({ parentConcentration: { value: '1000', unit: 'mg/L' }, levels: [{ value: '3.33', unit: 'mg/L' }], pipettes, flasks });
+    const c = p[0]!.choice!;
+    expect(c.pipette.kind).toBe('piston_pipette');
+    expect(new D(c.aliquotMl).mod(pistonStepMl('1')).isZero()).toBe(true);
+    // the achieved concentration is the one of the settable aliquot: c1·Va/Vf
+    expect(new D(c.concentration).eq(new D('1000').mul(c.aliquotMl).div(c.finalMl))).toBe(true);
   });
 
   it('says why when nothing fits: a level above the parent or in another unit', () => {
