@@ -387,6 +387,111 @@ function MixBudgets({ mix }: { mix: MixSection }) {
   );
 }
 
+// ------------------------------------------------------------------ mixes (several parents into one flask; METROLOGY §5.5 per analyte)
+
+/** The mix section of a mix's detail; undefined otherwise. */
+const mixOf = (d: PreparationDetail): MixSection | undefined => (d as PreparationDetail & { mix?: MixSection }).mix;
+
+/** One component of a mix in the shape of a dilution, so its calculation reads like one. */
+const mixComponentAsDilution = (mix: MixSection, c: MixComponent): DilutionSection => ({
+  method: 'volumetric',
+  parent: c.parent,
+  plannedAliquot: c.plannedAliquot,
+  plannedFinalMl: mix.plannedFinalMl,
+  planned: c.planned,
+  aliquots: c.aliquots,
+  ...(c.result ? { result: c.result } : {}),
+});
+
+function mixInputRows(d: PreparationDetail, mix: MixSection): string[][] {
+  const f = d.makeUp?.flask.snapshot ?? d.snapshot.flask;
+  const rows: string[][] = mix.components.flatMap((c) => {
+    const p = c.parent.snapshot;
+    return [
+      [`${c.analyteFormula}: parent concentration c1`, `${p.concentration.display} (u = ${shortDecimal(p.concentration.standardUncertainty, 6)} ${p.concentration.unit})`, `parent ${p.identifier} v${p.version}, ${p.status} when used, expires ${p.expiresOn}`],
+      [`${c.analyteFormula}: planned aliquot Vp`, `${c.plannedAliquot.volumeMl} mL`, wareText(c.plannedAliquot.pipette.snapshot)],
+    ];
+  });
+  rows.push(['Final volume Vf (every analyte)', `${mix.plannedFinalMl} mL`, f ? wareText(f) : 'planned volume']);
+  if (d.makeUp) rows.push(['Solution temperature', `${d.makeUp.solutionTemperatureC} °C`, `entered at make-up by ${d.makeUp.recordedBy.fullName}`]);
+  return rows;
+}
+
+function MixAliquots({ mix, tz }: { mix: MixSection; tz: string }) {
+  const rows = mix.components.flatMap((c) =>
+    c.aliquots.map((a) => [
+      String(a.id),
+      c.analyteFormula,
+      wareText(a.pipette.snapshot) + (a.pipette.identifier !== c.plannedAliquot.pipette.identifier ? ' (substituted for the planned pipette)' : ''),
+      `${a.volumeMl} mL`,
+      `${a.recordedBy.fullName}, ${labDateTime(a.recordedAt, tz)}`,
+      [a.supersedesId ? `corrects #${a.supersedesId}: ${dash(a.correctionReason)}` : '', a.supersededById ? `SUPERSEDED by #${a.supersededById}` : ''].filter(Boolean).join('; '),
+    ]),
+  );
+  const missing = mix.components.filter((c) => !c.aliquots.some((a) => !a.supersededById));
+  return (
+    <Section title="Aliquots, one per analyte (as recorded; superseded entries stay listed)">
+      {rows.length ? (
+        <Table
+          cols={[
+            { title: '#', width: '6%' },
+            { title: 'Analyte', width: '9%' },
+            { title: 'Pipette', width: '31%' },
+            { title: 'Volume', width: '10%' },
+            { title: 'Recorded', width: '22%' },
+            { title: 'Notes', width: '22%' },
+          ]}
+          rows={rows}
+        />
+      ) : null}
+      {missing.map((c) => (
+        <T key={c.linkId} style={s.para}>{`No aliquot of ${c.analyteFormula} recorded yet. Planned: ${c.plannedAliquot.volumeMl} mL of ${c.parent.identifier} with ${c.plannedAliquot.pipette.identifier}.`}</T>
+      ))}
+    </Section>
+  );
+}
+
+function MixCalculationText({ mix }: { mix: MixSection }) {
+  return (
+    <View>
+      {mix.components.map((c) => (
+        <View key={c.linkId}>
+          <T style={s.bold}>{`${c.analyteFormula} (from ${c.parent.identifier})`}</T>
+          <DilutionCalculationText dil={mixComponentAsDilution(mix, c)} />
+        </View>
+      ))}
+    </View>
+  );
+}
+
+function MixBudgets({ mix }: { mix: MixSection }) {
+  return (
+    <View>
+      {mix.components.map((c) =>
+        c.result ? (
+          <View key={c.linkId}>
+            <T style={s.bold}>{c.analyteFormula}</T>
+            <Table
+              cols={[
+                { title: 'Input', width: '30%' },
+                { title: 'Value', width: '17%' },
+                { title: 'Standard uncertainty', width: '15%' },
+                { title: 'Sensitivity', width: '14%' },
+                { title: 'Contribution', width: '14%' },
+                { title: 'Share', width: '10%' },
+              ]}
+              rows={budgetRows(c.result.budget.map((b) => ({ ...b, unit: b.input === 'parent' ? c.result!.unit : b.input === 'aliquot' || b.input === 'final' ? 'mL' : '1' })))}
+            />
+            <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(c.result.standardUncertainty, 6)} ${c.result.unit}; U = ${shortDecimal(c.result.expandedUncertainty, 6)} ${c.result.unit} (k = ${c.result.k}).`}</T>
+          </View>
+        ) : (
+          <T key={c.linkId} style={s.para}>{`${c.analyteFormula}: expected at planning ${c.planned.display}; the budget is computed with the result.`}</T>
+        ),
+      )}
+    </View>
+  );
+}
+
 function SignatureBlock({ sigs, tz }: { sigs: Signature[]; tz: string }) {
   if (!sigs.length) return <Text style={s.para}>No signatures yet.</Text>;
   return (
@@ -415,6 +520,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
   const activeWeighings = d.weighings;
   const dil = dilutionOf(d);
   const dr = dil?.result;
+  const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
   const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
   const title = `${d.identifier} v${d.version}`;
   return (
@@ -466,7 +572,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
           <KV k="Name / formula" v={`${m.name}, ${m.formula}${m.casNumber ? ` (CAS ${m.casNumber})` : ''}`} />
           <KV k="Grade / producer" v={`${m.grade}, ${m.producer}${m.catalogueNumber ? `, cat. ${m.catalogueNumber}` : ''}`} />
           <KV k="Lot / certificate" v={`${m.lot} / ${dash(m.certificateNumber)}`} />
-          <KV k="Purity" v={purityText(m.purity)} />
+          <KV k="Purity" v={mix ? "per parent: each parent's concentration already carries its material's purity" : purityText(m.purity)} />
           <KV k="Expiry of the material" v={dash(m.expiresOn)} />
           <KV k="Lot status at planning" v={m.status} />
         </Section>
@@ -596,6 +702,8 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               />
               <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(dr.standardUncertainty, 6)} ${dr.unit}; U = ${shortDecimal(dr.expandedUncertainty, 6)} ${dr.unit} (k = ${dr.k}).`}</T>
             </View>
+          ) : mix ? (
+            <MixBudgets mix={mix} />
           ) : mix ? (
             <MixBudgets mix={mix} />
           ) : (

@@ -204,3 +204,22 @@ export function mixCompleteness(e: MixEntries, hasMakeUp: boolean): string | nul
   if (!e.results) return 'the mix results have not been computed';
   return null;
 }
+
+/**
+ * What a label prints for a mix (printing.service): every analyte with its recomputed concentration ± U once all
+ * exist, else the planned ones marked as planned; `short` keeps each value as displayed with its unit.
+ */
+export function mixLabelText(d: { mix?: MixSection }): { display: string; short: string } | null {
+  const mix = d.mix;
+  if (!mix?.components.length) return null;
+  const done = mix.components.every((c) => c.result);
+  const parts = mix.components.map((c) => ({ analyteFormula: c.analyteFormula, r: (done ? c.result : c.planned)! }));
+  const short = parts
+    .map(({ analyteFormula, r }) => {
+      const m = /^\s*([^\s±]+)\s*±/.exec(r.display);
+      return `${analyteFormula} ${m ? m[1] : r.value} ${r.unit}`;
+    })
+    .join('; ');
+  const display = mixDisplay(parts.map(({ analyteFormula, r }) => ({ analyteFormula, display: r.display, k: r.k })));
+  return done ? { display, short } : { display: `${display} (planned; not yet made up)`, short: `${short} (planned)` };
+}

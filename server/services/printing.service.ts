@@ -25,6 +25,8 @@ import { recordAudit, recordTrail } from './audit.service.ts';
 import { getLabelTemplate, templateSnapshot } from './label-templates.service.ts';
 import { getPreparation } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
+import type { LineageSection } from '../../shared/schemas/lineage.ts';
+import { mixLabelText } from './mix-view.ts';
 
 export interface Actor {
   id: number;
@@ -89,11 +91,15 @@ export async function prepSheetPdf(key: string, actor: Actor): Promise<{ pdf: Bu
 /** The concentration that counts: a stock's result, or a dilution's result from its aliquot and make-up (lineage section). */
 function recordConcentration(d: PreparationDetail): { value: string; unit: string; display: string } | null {
   if (d.result) return d.result.concentration;
+  const mix = mixLabelText(d as PreparationDetail & LineageSection); // a mix: every analyte (mix-view.ts)
+  if (mix) return { value: mix.short, unit: '', display: mix.display };
   return (d as PreparationDetail & { dilution?: { result?: { value: string; unit: string; display: string } } }).dilution?.result ?? null;
 }
 
 /** "1001.0 ± 2.7 mg/L (k = 2)" → "1001.0 mg/L" (the value as displayed, with its unit). */
 function shortConcentration(d: PreparationDetail): string {
+  const mix = mixLabelText(d as PreparationDetail & LineageSection);
+  if (mix) return mix.short;
   const c = recordConcentration(d);
   if (!c) return `${d.target.value} ${d.target.unit} (planned)`;
   const m = /^\s*([^\s±]+)\s*±/.exec(c.display);

@@ -2,9 +2,11 @@
 // concentration and GUM budget (METROLOGY §5.5 per component), only verified in-date parents with distinct analytes
 // (REQUIREMENTS TR-11), expiry capped by every parent (EX-01), one aliquot per component at the bench (append-only),
 // signed and verified through the real signature flow (ES-03, RV-02), traced from each parent's lot (TR-04), route × role.
+import { PDFParse } from 'pdf-parse';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry, Preparation } from '../../server/db/models/index.ts';
+import { labelSnapshotOf } from '../../server/services/printing.service.ts';
 import { currentRecordHash } from '../../server/services/signatures.service.ts';
 import { D, triangular } from '../../shared/calc/index.ts';
 import { volumetricDilution } from '../../shared/calc/dilution.ts';
@@ -293,6 +295,24 @@ describe('a mix at the bench, signed and verified', () => {
     // an aliquot after signing is refused
     const late = await send('technician', 'post', `/api/preparations/${m.identifier}/aliquots`, { pipetteIdentifier: 'BP-2-01', componentId: cCd.linkId, supersedesId: a2.body.mix.components[1].aliquots[0].id, correctionReason: 'after signing' });
     expect(late.status).toBe(409);
+
+    // labels print every analyte (the label content as stored with a print)
+    const label = await labelSnapshotOf(v.body, 'Europe/London');
+    expect(label.concentration).toBe(display);
+    expect(label.concentrationShort).toMatch(/^Pb \S+ mg\/L; Cd \S+ mg\/L$/);
+    // the prep sheet lists every analyte: its parent, its aliquot, its calculation and budget
+    const sheet = await send('chemist', 'get', `/api/preparations/${m.identifier}/prep-sheet.pdf`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
+    expect(sheet.status).toBe(200);
+    const parser = new PDFParse({ data: new Uint8Array(sheet.body as Buffer) });
+    const pdf = (await parser.getText()).text.replace(/\s+/g, ' ');
+    await parser.destroy();
+    for (const text of [`Pb (from ${pb.identifier})`, `Cd (from ${cd.identifier})`, 'Cd: planned aliquot Vp', 'Aliquots, one per analyte', rPb.display, rCd.display, 'Drained into the wrong flask', 'Purity per parent']) expect(pdf).toContain(text);
 
     // a verified mix is not a parent (a dilution takes one analyte): a clear 422
     const asParent = await send('chemist', 'post', `/api/preparations/${m.identifier}/dilutions`, { method: 'volumetric', target: { value: '0.1', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-01'] });
