@@ -15,6 +15,7 @@ import type { DilutionSection, MixComponent, MixSection } from '../../shared/sch
 import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay, percent, shortDecimal } from './format.ts';
+import { gravimetricBudget, gravimetricCalculationLines, gravimetricInputRows, gravimetricOf, gravimetricReadingRows } from './gravimetric-sheet.ts';
 
 export interface PrepSheetData {
   lab: { name: string; timeZone: string };
@@ -519,6 +520,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
   const m = d.snapshot.material;
   const activeWeighings = d.weighings;
   const dil = dilutionOf(d);
+  const grav = gravimetricOf(d); // a dilution by mass (gravimetric-sheet.ts)
   const dr = dil?.result;
   const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
   const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
@@ -546,7 +548,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         <View style={[s.row, { justifyContent: 'space-between' }]}>
           <View style={{ flex: 1, paddingRight: 10 }}>
             <T style={s.big}>{`${d.materialName} — ${d.analyteFormula}`}</T>
-            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : dr ? dr.display : mix ? (d.concentrationDisplay ?? `No result yet (planned: ${mix.components.map((c) => `${c.analyteFormula} ${c.planned.display}`).join('; ')})`) : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
+            <T style={[s.big, { marginTop: 4 }]}>{d.result ? d.result.concentration.display : dr ? dr.display : grav?.result ? grav.result.display : mix ? (d.concentrationDisplay ?? `No result yet (planned: ${mix.components.map((c) => `${c.analyteFormula} ${c.planned.display}`).join('; ')})`) : `No result yet (planned ${d.target.value} ${d.target.unit})`}</T>
             {dr && !d.result ? (
               <T style={s.small}>{`c = ${shortDecimal(dr.value, 6)} ${dr.unit}; expanded uncertainty U = ${shortDecimal(dr.expandedUncertainty, 4)} ${dr.unit} (k = ${dr.k}, about 95 % coverage); diluted from ${dil!.parent.identifier}`}</T>
             ) : null}
@@ -584,11 +586,29 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               { title: 'Value', width: '34%' },
               { title: 'Source', width: '40%' },
             ]}
-            rows={dil ? dilutionInputRows(d, dil) : mix ? mixInputRows(d, mix) : inputRows(d)}
+            rows={grav ? gravimetricInputRows(d, grav) : dil ? dilutionInputRows(d, dil) : mix ? mixInputRows(d, mix) : inputRows(d)}
           />
         </Section>
 
-        {dil ? (
+        {grav ? (
+          <Section title="Readings of the aliquot and the final solution (as read; superseded entries stay listed)">
+            {grav.readings.length ? (
+              <Table
+                cols={[
+                  { title: '#', width: '6%' },
+                  { title: 'As read', width: '22%' },
+                  { title: 'Balance', width: '12%' },
+                  { title: 'Room conditions and air density', width: '26%' },
+                  { title: 'Recorded', width: '18%' },
+                  { title: 'Notes', width: '16%' },
+                ]}
+                rows={gravimetricReadingRows(grav, tz)}
+              />
+            ) : (
+              <Text style={s.para}>{`No readings recorded yet. Aliquot to aim for ${grav.plan.aliquot.readingShownG} g of ${grav.parent.identifier}, final solution ${grav.plan.final.readingShownG} g.`}</Text>
+            )}
+          </Section>
+        ) : dil ? (
           <Section title="Aliquots (as recorded; superseded entries stay listed)">
             {dil.aliquots.length ? (
               <Table
@@ -663,12 +683,20 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               {d.makeUpHistory.length ? <KV k="Earlier make-ups" v={d.makeUpHistory.map((h) => `#${h.id} ${h.flask.identifier} ${labDateTime(h.recordedAt, tz)}`).join('; ')} /> : null}
             </View>
           ) : (
-            <Text style={s.para}>Not made up to volume yet{d.snapshot.flask ? ` (planned flask ${d.snapshot.flask.identifier})` : ''}.</Text>
+            <Text style={s.para}>{grav ? 'Made up to a mass, not a volume: see the readings above' : 'Not made up to volume yet'}{d.snapshot.flask ? ` (planned flask ${d.snapshot.flask.identifier})` : ''}.</Text>
           )}
         </Section>
 
         <Section title="Calculation">
-          {dil ? <DilutionCalculationText dil={dil} /> : mix ? <MixCalculationText mix={mix} /> : <CalculationText d={d} />}
+          {grav ? (
+            <View>
+              {gravimetricCalculationLines(grav).map((l, i) => (
+                <T key={i} style={s.para}>
+                  {l}
+                </T>
+              ))}
+            </View>
+          ) : dil ? <DilutionCalculationText dil={dil} /> : mix ? <MixCalculationText mix={mix} /> : <CalculationText d={d} />}
         </Section>
 
         <Section title="Uncertainty budget (GUM)">
@@ -686,6 +714,21 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
                 rows={budgetRows(d.result.budget)}
               />
               <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(d.result.concentration.standardUncertainty, 6)} ${d.result.concentration.unit}; U = ${shortDecimal(d.result.concentration.expandedUncertainty, 6)} ${d.result.concentration.unit} (k = ${d.result.concentration.k}).`}</T>
+            </View>
+          ) : grav?.result ? (
+            <View>
+              <Table
+                cols={[
+                  { title: 'Input', width: '30%' },
+                  { title: 'Value', width: '17%' },
+                  { title: 'Standard uncertainty', width: '15%' },
+                  { title: 'Sensitivity', width: '14%' },
+                  { title: 'Contribution', width: '14%' },
+                  { title: 'Share', width: '10%' },
+                ]}
+                rows={budgetRows(gravimetricBudget(grav) ?? [])}
+              />
+              <T style={[s.para, { marginTop: 3 }]}>{`Budget of the mass concentration. Combined u(γ) = ${shortDecimal(grav.result.massConcentration.standardUncertainty, 6)} mg/L; u(w) = ${shortDecimal(grav.result.massFraction.standardUncertainty, 6)} mg/kg (k = ${grav.result.massFraction.k} for U).`}</T>
             </View>
           ) : dr ? (
             <View>
@@ -707,7 +750,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
           ) : mix ? (
             <MixBudgets mix={mix} />
           ) : (
-            <T style={s.para}>{`Expected at planning: ${dil ? dil.planned.display : d.plan.expectedUncertainty.display}. The budget is computed with the result.`}</T>
+            <T style={s.para}>{`Expected at planning: ${grav ? `${grav.plan.planned.massFraction.display}; ${grav.plan.planned.massConcentration.display}` : dil ? dil.planned.display : d.plan.expectedUncertainty.display}. The budget is computed with the result.`}</T>
           )}
         </Section>
 

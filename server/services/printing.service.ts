@@ -93,6 +93,8 @@ function recordConcentration(d: PreparationDetail): { value: string; unit: strin
   if (d.result) return d.result.concentration;
   const mix = mixLabelText(d as PreparationDetail & LineageSection); // a mix: every analyte (mix-view.ts)
   if (mix) return { value: mix.short, unit: '', display: mix.display };
+  const grav = (d as PreparationDetail & { gravimetric?: { result?: { massFraction: { value: string }; display: string } } }).gravimetric?.result; // a dilution by mass: mg/kg (and mg/L in the display)
+  if (grav) return { value: grav.massFraction.value, unit: 'mg/kg', display: grav.display };
   return (d as PreparationDetail & { dilution?: { result?: { value: string; unit: string; display: string } } }).dilution?.result ?? null;
 }
 

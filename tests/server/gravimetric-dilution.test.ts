@@ -7,6 +7,7 @@
 //
 // The parent's concentration is set to exactly 1000 mg/L (u 0.5 mg/L) before it is signed, so that the worked
 // values below can be derived by hand.
+import { PDFParse } from 'pdf-parse';
 import request from 'supertest';
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -273,6 +274,18 @@ describe('the readings at the bench, the stored result, signing and use as a par
     expect(verified.status, JSON.stringify(verified.body)).toBe(201);
     expect(verified.body.status).toBe('verified');
     expect((await verifySignatures(d.id)).every((c) => c.ok)).toBe(true);
+
+    // the prep sheet of a gravimetric dilution renders (no stock plan fields to read)
+    const sheet = await send('chemist', 'get', `/api/preparations/${key}/prep-sheet.pdf`).buffer(true).parse((res, cb) => {
+      const chunks: Buffer[] = [];
+      res.on('data', (c: Buffer) => chunks.push(c));
+      res.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(sheet.status).toBe(200);
+    const parser = new PDFParse({ data: new Uint8Array(sheet.body as Buffer) });
+    const pdf = (await parser.getText()).text.replace(/\s+/g, ' ');
+    await parser.destroy();
+    for (const text of ['Readings of the aliquot and the final solution', 'aliquot 1.0002 g; final 100.0000 g', 'SUPERSEDED by', fix.body.gravimetric.result.massFraction.display, fix.body.gravimetric.result.massConcentration.display]) expect(pdf).toContain(text);
 
     // as a parent of a volumetric dilution its mass concentration is the parent concentration
     const gamma = new D(fix.body.gravimetric.result.massConcentration.value);

@@ -18,6 +18,8 @@ import { aliquotFor, expectedDilution } from './expected-dilution.ts';
 import { labToday, parentRefusal } from './parent-check.ts';
 import { D } from '../../../shared/calc/decimal.ts';
 import type { VolumetricWare } from '../../../shared/schemas/inventory.ts';
+import type { DilutionMethod } from '../../../shared/schemas/lineage.ts';
+import { GravimetricForm } from './components/gravimetric-form.tsx';
 
 export function wareLabel(w: Pick<VolumetricWare, 'identifier' | 'nominalVolumeMl' | 'class' | 'toleranceMl' | 'kind'>): string {
   const kind = w.kind === 'volumetric_flask' ? 'flask' : w.kind.replace(/_/g, ' ');
@@ -61,6 +63,7 @@ export function DilutePage() {
   const [pipetteId, setPipetteId] = useState('');
   const [flaskId, setFlaskId] = useState('');
   const [local, setLocal] = useState<Record<string, string>>({});
+  const [method, setMethod] = useState<DilutionMethod>('volumetric'); // by volume or by mass (gravimetric-form.tsx)
 
   const pipette = pipettes.data.find((w) => String(w.id) === pipetteId);
   const flask = flasks.data?.find((w) => String(w.id) === flaskId);
@@ -141,6 +144,17 @@ export function DilutePage() {
           </Link>
         </Banner>
       ) : (
+        <>
+        <fieldset className="flex flex-wrap gap-3" data-testid="dilute-method">
+          <legend className="mb-2 text-sm font-semibold">How is it diluted?</legend>
+          {([['volumetric', 'By volume (pipette and flask)'], ['gravimetric', 'By mass (weigh aliquot and final solution)']] as const).map(([m, label]) => (
+            <label key={m} className={`flex min-h-14 cursor-pointer items-center gap-3 rounded-lg border-2 px-5 text-lg font-semibold ${method === m ? 'border-slate-700 bg-slate-700 text-white' : 'border-slate-700 bg-card'}`}>
+              <input type="radio" name="dilute-method" value={m} checked={method === m} onChange={() => setMethod(m)} className="size-5" data-testid={`dilute-method-${m}`} />
+              {label}
+            </label>
+          ))}
+        </fieldset>
+        {method === 'gravimetric' ? <GravimetricForm parent={p} /> : (
         <form onSubmit={submit} noValidate className="flex flex-col gap-6" data-testid="dilute-form">
           {p.reviewFlag ? (
             <Banner tone="info" title="This parent is flagged for review">
@@ -218,6 +232,8 @@ export function DilutePage() {
             </Link>
           </div>
         </form>
+        )}
+        </>
       )}
     </div>
   );

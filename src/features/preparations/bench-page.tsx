@@ -16,6 +16,7 @@ import type { Weighing } from './types.ts';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge } from '../signatures/components/status-badge.tsx';
 import { isDilution } from '../lineage/components/lineage-section.tsx';
 import { DilutionBench } from '../lineage/components/dilution-bench.tsx';
+import { GravimetricBench, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
 import { MixBench } from '../mixes/components/mix-bench.tsx';
 import { isMix } from '../mixes/components/mix-panel.tsx';
 
@@ -43,7 +44,7 @@ export function BenchPage() {
   const current = d.weighings.filter((w) => !w.supersededById);
   const latest = current[current.length - 1];
   // A volumetric dilution has no weighing: the aliquot, make-up and result panels replace target and weighing.
-  const dilution = isDilution(d) || isMix(d); // a mix has no weighing either (MixBench)
+  const dilution = isDilution(d) || isMix(d) || isGravimetric(d); // a mix has no weighing either (MixBench); a dilution by mass: GravimetricBench
 
   return (
     <div className="flex flex-col gap-6">
@@ -112,6 +113,7 @@ export function BenchPage() {
 
       {dilution ? <DilutionBench d={d} timeZone={tz} /> : null}
       {isMix(d) ? <MixBench d={d} timeZone={tz} /> : null}
+      {isGravimetric(d) ? <GravimetricBench d={d} timeZone={tz} /> : null}
 
       {saved ? (
         <Banner tone="ok" title="Saved" testId="bench-saved">

@@ -15,6 +15,7 @@ import { balanceDecimals, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
 import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
+import { GravimetricPanel, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
 import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
 import { MixAction, MixInputs, MixPanel, isMix } from '../mixes/components/mix-panel.tsx';
 import { AmendedMarker, ReviewFlagBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
@@ -198,6 +199,8 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </Panel>
       ) : isMix(d) ? (
         <MixPanel d={d} />
+      ) : isGravimetric(d) ? (
+        <GravimetricPanel d={d} />
       ) : isDilution(d) ? (
         <DilutionPlanPanel d={d} />
       ) : (
@@ -226,7 +229,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </Panel>
       ) : null}
 
-      {isDilution(d) || isMix(d) ? null : (
+      {isDilution(d) || isMix(d) || isGravimetric(d) ? null : (
       <Panel title="Plan" id="detail-plan">
         <Facts
           testId="detail-plan-facts"
