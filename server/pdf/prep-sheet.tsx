@@ -418,7 +418,6 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
   const grav = gravimetricOf(d); // a dilution by mass (gravimetric-sheet.ts)
   const dr = dil?.result;
   const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
-  const mix = mixOf(d); // a mix: every analyte from its own parent (MixAliquots, MixCalculationText, MixBudgets)
   const title = `${d.identifier} v${d.version}`;
   return (
     <Document title={`Prep sheet ${title}`} author={data.lab.name} creator="Tarebook" producer="Tarebook" creationDate={new Date(data.generatedAt)}>
@@ -640,8 +639,6 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
               />
               <T style={[s.para, { marginTop: 3 }]}>{`Combined u(c) = ${shortDecimal(dr.standardUncertainty, 6)} ${dr.unit}; U = ${shortDecimal(dr.expandedUncertainty, 6)} ${dr.unit} (k = ${dr.k}).`}</T>
             </View>
-          ) : mix ? (
-            <MixBudgets mix={mix} />
           ) : mix ? (
             <MixBudgets mix={mix} />
           ) : (
