@@ -28,7 +28,7 @@ import type {
   WeighingInput,
 } from '../../shared/schemas/preparations.ts';
 import { DEFAULT_STABILITY_BASIS, DEFAULT_STABILITY_DAYS, type LabSettings } from '../../shared/schemas/settings.ts';
-import { Balance, DilutionAliquot, MakeUp, Preparation, PreparationEvent, ReferenceMaterial, Solvent, User, VolumetricWare, Weighing } from '../db/models/index.ts';
+import { Balance, DilutionAliquot, GravimetricReading, MakeUp, Preparation, PreparationEvent, ReferenceMaterial, Solvent, User, VolumetricWare, Weighing } from '../db/models/index.ts';
 import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
@@ -416,12 +416,13 @@ async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationD
     PreparationEvent.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']] }),
     DilutionAliquot.count({ where: { preparationId: p.id } }), // a dilution's measured step is its aliquot (no weighing)
   ]);
+  const readingCount = await GravimetricReading.count({ where: { preparationId: p.id } }); // a dilution by mass: both readings weigh and make up at once
   const users = await usersById([p.createdBy, ...weighings.map((w) => w.recordedBy), ...makeUps.map((m) => m.recordedBy), ...events.map((e) => e.byId)]);
   const supersededBy = new Map<number, number>();
   for (const w of weighings) if (w.supersedesId !== null) supersededBy.set(w.supersedesId, w.id);
   const latestMakeUp = makeUps.at(-1);
   const detail: PreparationDetail = {
-    ...summaryOf(p, users, stageOf(weighings.length > 0 || aliquotCount > 0, makeUps.length > 0), today),
+    ...summaryOf(p, users, stageOf(weighings.length > 0 || aliquotCount > 0 || readingCount > 0, makeUps.length > 0 || readingCount > 0), today),
     version: p.version,
     inputs: p.inputs,
     conditionsUsed: p.conditionsUsed,
@@ -492,6 +493,11 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
     : [[], [], []];
   const weighed = new Set([...ws, ...as].map((w) => w.preparationId)); // a dilution's aliquot stands for the weighing
   const madeUp = new Set(ms.map((m) => m.preparationId));
+  // a dilution by mass is weighed and made up in one step: both readings (gravimetric_readings)
+  for (const r of ids.length ? await GravimetricReading.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }) : []) {
+    weighed.add(r.preparationId);
+    madeUp.add(r.preparationId);
+  }
   const users = await usersById(rows.map((r) => r.createdBy));
   return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today)), total: count, page: q.page, pageSize: q.pageSize };
 }

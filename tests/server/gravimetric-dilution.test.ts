@@ -238,7 +238,10 @@ describe('the readings at the bench, the stored result, signing and use as a par
     expect(res.massFraction.budget.map((b: { input: string }) => b.input)).toEqual(['parent', 'aliquot', 'final', 'airDensity', 'aliquotDensity', 'finalDensity']);
     expect(res.massFraction.display).toMatch(/^9\.9\d* ± 0\.0\d+ mg\/kg \(k = 2\)$/);
     expect(r.body.concentrationDisplay).toBe(`${res.massFraction.display}; ${res.massConcentration.display}`);
-    expect(r.body.stage).toBeDefined();
+    expect(r.body.stage).toBe('complete'); // both readings: weighed and made up to mass in one step
+    expect(d.stage).toBe('planned');
+    const listed = await send('chemist', 'get', `/api/preparations?search=${key}`);
+    expect(listed.body.items.find((x: { identifier: string }) => x.identifier === key).stage).toBe('complete');
 
     // append-only: a second record without supersedesId is refused; a correction supersedes and keeps the first
     const again = await send('technician', 'post', `/api/preparations/${key}/gravimetric-readings`, { aliquotReading: '1.0002', finalReading: '100.0000', room: ROOM });

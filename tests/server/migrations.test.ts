@@ -90,6 +90,14 @@ describe('migrations', () => {
     await expect(sequelize.query(insert)).rejects.toBeInstanceOf(UniqueConstraintError);
   });
 
+  it('then a dilution result (0011) and the gravimetric readings (0012) are TEXT, and the readings are append-only', async () => {
+    expect((await columnTypes('preparations')).dilution_result).toBe('TEXT');
+    const g = await columnTypes('gravimetric_readings');
+    for (const c of ['aliquot_reading', 'final_reading', 'unit', 'air_density', 'air_density_u', 'conditions', 'balance_snapshot', 'recorded_at']) expect(g[c], c).toBe('TEXT');
+    const triggers = await sequelize.query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'trigger' AND tbl_name = 'gravimetric_readings' ORDER BY name", { type: QueryTypes.SELECT });
+    expect(triggers.map((x) => x.name)).toEqual(['gravimetric_readings_no_delete', 'gravimetric_readings_no_update']);
+  });
+
   it('when migrated down to 0002, then every later migration is reverted and its tables go', async () => {
     const later = MIGRATIONS.filter((m) => m > '0002-inventory.ts');
     // umzug's down({ to }) reverts down to and including `to`.
