@@ -1,7 +1,8 @@
 /**
  * Demo preparations for the fictional Harbourside Water Laboratory, created through the real services so
  * every number (plan, window, result, budget, expiry) is computed by the metrology core, not typed in.
- * Dates are fixed in November 2026; the readings are invented but plausible for the balances used.
+ * Dates are written in November 2026 and move with the seeding day (seed/demo-clock.ts); the readings are
+ * invented but plausible for the balances used.
  *   1. Pb 1000 mg/L (Pb(NO3)2), weighed and made up: complete with a result.
  *   2. Cl 1000 mg/L (NaCl): a mistyped reading corrected by a superseding weighing, then made up.
  *   3. C (TOC) 1000 mg/L (KHP): an out-of-window weighing kept with its reason, then made up.
@@ -16,6 +17,7 @@ import { createPreparation, recordMakeUp, recordWeighing, type Actor } from '../
 import { sign } from '../server/services/signatures.service.ts';
 import { VERIFICATION_CHECKLIST } from '../shared/schemas/preparations.ts';
 import { DEMO_PASSWORD } from './demo-data.ts';
+import { demoInstant } from './demo-clock.ts';
 
 async function actor(email: string): Promise<Actor> {
   const u = await User.findOne({ where: { email } });
@@ -29,8 +31,11 @@ async function idOf<T extends { id: number }>(row: Promise<T | null>, what: stri
   return r.id;
 }
 
-const at = (iso: string) => ({ now: new Date(iso) });
-const room = (t: string, p: string, rh: string, measuredAt: string) => ({ source: 'measured' as const, temperatureC: t, pressureHPa: p, relativeHumidityPct: rh, measuredAt });
+/** The seeding day: every scenario time below is shifted with it (seed/demo-clock.ts). */
+let seedNow = new Date();
+const when = (iso: string) => demoInstant(iso, seedNow);
+const at = (iso: string) => ({ now: new Date(when(iso)) });
+const room = (t: string, p: string, rh: string, measuredAt: string) => ({ source: 'measured' as const, temperatureC: t, pressureHPa: p, relativeHumidityPct: rh, measuredAt: when(measuredAt) });
 
 /** The planned reading moved by n scale intervals, with the balance's decimals (a plausible actual reading). */
 function near(target: string, steps: number, readabilityMg: string): string {
@@ -38,7 +43,8 @@ function near(target: string, steps: number, readabilityMg: string): string {
   return new D(target).plus(d.times(steps)).toFixed(d.decimalPlaces());
 }
 
-export async function seedDemoPreparations(): Promise<number> {
+export async function seedDemoPreparations(now: Date = new Date()): Promise<number> {
+  seedNow = now;
   const maren = await actor('chemist@harbourside.example');
   const idris = await actor('chemist2@harbourside.example');
   const priya = await actor('technician@harbourside.example');
@@ -139,7 +145,7 @@ export async function seedDemoPreparations(): Promise<number> {
   await recordMakeUp(toc.identifier, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '21.2', applyTemperatureCorrection: false }, maren, at('2026-11-18T13:58:00Z'));
 
   // Signatures: Pb prepared by Maren and verified by Idris (who entered none of its data); TOC prepared, awaiting review.
-  const signing = (iso: string) => ({ lockoutThreshold: 5, publicUrl: process.env.PUBLIC_URL ?? `http://localhost:${process.env.PORT || 3000}`, now: new Date(iso) });
+  const signing = (iso: string) => ({ lockoutThreshold: 5, publicUrl: process.env.PUBLIC_URL ?? `http://localhost:${process.env.PORT || 3000}`, now: new Date(when(iso)) });
   const checklist = Object.fromEntries(VERIFICATION_CHECKLIST.map((c) => [c.key, true as const]));
   await sign(pb.identifier, { meaning: 'prepared', password: DEMO_PASSWORD, acknowledgeResponsibility: true }, maren, signing('2026-11-09T09:40:00Z'));
   await sign(pb.identifier, { meaning: 'verified', password: DEMO_PASSWORD, checklist, acknowledgeResponsibility: true }, idris, signing('2026-11-09T14:05:00Z'));

@@ -7,6 +7,7 @@ import { Balance, initModels, modelsBoundTo, ReferenceMaterial, Solvent, User, V
 import { hashPassword } from '../server/services/passwords.ts';
 import { seedDemoPreparations } from './demo-preparations.ts';
 import { DEMO_PASSWORD, demoBalances, demoMaterials, demoSolvents, demoUsers, demoVolumetricWare } from './demo-data.ts';
+import { shiftDemoRecord } from './demo-clock.ts';
 
 export class SeedRefusedError extends Error {
   override name = 'SeedRefusedError';
@@ -20,7 +21,7 @@ export interface SeedResult {
 
 export async function seedDemoLab(
   sequelize: Sequelize,
-  opts: { env?: NodeJS.ProcessEnv; passwordHash?: string } = {},
+  opts: { env?: NodeJS.ProcessEnv; passwordHash?: string; /** the seeding day (demo dates move with it, seed/demo-clock.ts) */ now?: Date } = {},
 ): Promise<SeedResult> {
   const env = opts.env ?? process.env;
   if (env.NODE_ENV === 'production') {
@@ -29,15 +30,17 @@ export async function seedDemoLab(
   if (!modelsBoundTo(sequelize)) initModels(sequelize);
   if ((await User.count()) > 0) return { seeded: false, reason: 'The database already has users' };
 
+  const now = opts.now ?? new Date();
   const passwordHash = opts.passwordHash ?? (await hashPassword(DEMO_PASSWORD));
   await sequelize.transaction(async (transaction) => {
     await User.bulkCreate(demoUsers.map((u) => ({ ...u, passwordHash })), { transaction });
-    await ReferenceMaterial.bulkCreate(demoMaterials.map((m) => ({ ...m })), { transaction });
-    await Balance.bulkCreate(demoBalances.map((b) => ({ ...b })), { transaction });
-    await VolumetricWare.bulkCreate(demoVolumetricWare.map((w) => ({ ...w })), { transaction });
-    await Solvent.bulkCreate(demoSolvents.map((s) => ({ ...s })), { transaction });
+    const shifted = <T extends object>(rows: T[]) => rows.map((r) => shiftDemoRecord(r, now));
+    await ReferenceMaterial.bulkCreate(shifted(demoMaterials), { transaction });
+    await Balance.bulkCreate(shifted(demoBalances), { transaction });
+    await VolumetricWare.bulkCreate(shifted(demoVolumetricWare), { transaction });
+    await Solvent.bulkCreate(shifted(demoSolvents), { transaction });
   });
-  await seedDemoPreparations();
+  await seedDemoPreparations(now);
   return {
     seeded: true,
     counts: {

@@ -14,6 +14,7 @@ import { addDays } from '../../shared/prep/dates.ts';
 import { EXPIRY_EXTENSION_MEANING_TEXT } from '../../shared/schemas/expiry.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { demoDay } from '../../seed/demo-clock.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 const PEOPLE = ['chemist', 'chemist2', 'technician', 'qa', 'admin'] as const;
@@ -30,6 +31,9 @@ const CONDITIONS = { temperatureC: '21', pressureHPa: '985', relativeHumidityPct
 const CHECKLIST = Object.fromEntries(VERIFICATION_CHECKLIST.map((c) => [c.key, true]));
 /** The lab zone of the demo lab is Europe/London; the moved clock is set to noon UTC, away from midnight edges. */
 const realToday = new Date().toISOString().slice(0, 10);
+/** The demo lot's expiry as seeded (before the clock is moved): seed/demo-clock.ts moves demo dates with the seeding day. */
+const LOT_EXPIRY = demoDay('2028-02-29');
+const DAY_AFTER_LOT_EXPIRY = demoDay('2028-03-01');
 const TODAY = addDays(realToday, 45);
 
 const signIn = async () => {
@@ -242,10 +246,10 @@ describe('POST /api/preparations/:key/expiry-extensions: who and what (REQUIREME
 
   it('never beyond the reference material lot (422 naming it; demo Pb(NO3)2 lot NRM-24-0931 expires 2028-02-29)', async () => {
     const d = await detail(made.verified.identifier);
-    expect(d.expiryCap).toEqual({ date: '2028-02-29', limitedBy: 'reference material Lead(II) nitrate lot NRM-24-0931', kind: 'material' });
-    const res = await extend('qa', made.verified.identifier, { newExpiresOn: '2028-03-01' });
+    expect(d.expiryCap).toEqual({ date: LOT_EXPIRY, limitedBy: 'reference material Lead(II) nitrate lot NRM-24-0931', kind: 'material' });
+    const res = await extend('qa', made.verified.identifier, { newExpiresOn: DAY_AFTER_LOT_EXPIRY }); // the day after the lot's expiry (demo dates move with the seeding day)
     expect(res.status).toBe(422);
-    expect(res.body.error.fields.newExpiresOn).toBe('The new expiry cannot be later than 2028-02-29, limited by reference material Lead(II) nitrate lot NRM-24-0931');
+    expect(res.body.error.fields.newExpiresOn).toBe(`The new expiry cannot be later than ${LOT_EXPIRY}, limited by reference material Lead(II) nitrate lot NRM-24-0931`);
   });
 
   it('a discarded record, or one not made up yet, cannot be extended (409)', async () => {
@@ -280,7 +284,7 @@ describe('an extension by QA', () => {
       meaningText: EXPIRY_EXTENSION_MEANING_TEXT,
       recordVersion: before.version,
       recordHash: before.hash,
-      cap: { date: '2028-02-29', limitedBy: 'reference material Lead(II) nitrate lot NRM-24-0931' },
+      cap: { date: LOT_EXPIRY, limitedBy: 'reference material Lead(II) nitrate lot NRM-24-0931' },
     });
     expect(extended.expiryExtensions[0].signedAt).toBe(new Date(`${TODAY}T12:00:00Z`).toISOString());
     const row = (await ExpiryExtension.findOne({ where: { preparationId: made.forLabels.id } }))!;

@@ -10,6 +10,7 @@ import { WEIGHINGS_APPEND_ONLY, MAKE_UPS_APPEND_ONLY } from '../../server/db/mig
 import { openDatabase } from '../../server/db/sequelize.ts';
 import { calculatePreparation, type PreparationRequest } from '../../shared/calc/index.ts';
 import { DEMO, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { demoDay, demoInstant } from '../../seed/demo-clock.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 
@@ -170,7 +171,7 @@ describe('planning gates (shared/prep/gates.ts; REQUIREMENTS EQ-01/02/04, TR-03,
 
   it('when the material expired (NaF, 2026-06-30), then material_expired blocks with the date', async () => {
     const g = await blockedBy({ materialId: ids.material['NaF'], analyteFormula: 'F', target: { value: '1000', unit: 'mg/L' } }, 'material_expired');
-    expect(g.message).toContain('2026-06-30');
+    expect(g.message).toContain(demoDay('2026-06-30')); // demo dates move with the seeding day (seed/demo-clock.ts)
   });
 
   it('when the material is quarantined (KNO3), then material_not_accepted blocks', async () => {
@@ -179,7 +180,7 @@ describe('planning gates (shared/prep/gates.ts; REQUIREMENTS EQ-01/02/04, TR-03,
 
   it('when the balance calibration is overdue (BAL-A2, due 2026-05-20), then calibration_overdue blocks', async () => {
     const g = await blockedBy({ balanceId: ids.balance['BAL-A2'] }, 'calibration_overdue');
-    expect(g.message).toContain('2026-05-20');
+    expect(g.message).toContain(demoDay('2026-05-20'));
   });
 
   it('when the balance is out of service (BAL-T1), then balance_out_of_service blocks', async () => {
@@ -492,7 +493,7 @@ describe('records kept for good', () => {
 describe('demo seed (seed/demo-preparations.ts)', () => {
   it('when the demo lab is seeded, then five November preparations by the two chemists cover every stage, a correction and an out-of-window reason', async () => {
     const list = (await send('qa', 'get', '/api/preparations?search=HWL-2026-000&pageSize=100')).body.items as any[];
-    const seeded = list.filter((i) => i.createdAt.startsWith('2026-11')).sort((a, b) => a.id - b.id);
+    const seeded = list.filter((i) => i.createdAt < demoInstant('2026-12-01T00:00:00Z')).sort((a, b) => a.id - b.id);
     expect(seeded.map((i) => i.stage)).toEqual(['complete', 'complete', 'complete', 'weighed', 'planned']);
     expect(new Set(seeded.map((i) => i.createdBy.fullName))).toEqual(new Set(['Dr. Maren Tollefsen', 'Idris Okonkwo-Baptiste']));
     const cl = (await send('qa', 'get', `/api/preparations/${seeded[1].identifier}`)).body;
@@ -502,6 +503,6 @@ describe('demo seed (seed/demo-preparations.ts)', () => {
     expect(toc.weighings[0]).toMatchObject({ inWindow: false, outOfWindowReason: expect.stringContaining('Overshot') });
     const pb = (await send('qa', 'get', `/api/preparations/${seeded[0].identifier}`)).body;
     expect(Number(pb.result.concentration.value)).toBeCloseTo(1000.99, 2); // METROLOGY §5.4 (same reading and conditions)
-    expect(pb.expiry.expiresOn).toBe('2026-12-09'); // prepared 2026-11-09 + 30 days (lab default stability rule)
+    expect(pb.expiry.expiresOn).toBe(demoDay('2026-12-09')); // prepared 2026-11-09 + 30 days (lab default stability rule), both moved with the seeding day
   });
 });

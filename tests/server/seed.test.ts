@@ -3,6 +3,7 @@ import { mkdtempSync, rmSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import Decimal from 'decimal.js';
+import { QueryTypes } from 'sequelize';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { migrateUp } from '../../server/db/migrate.ts';
@@ -10,6 +11,7 @@ import { openDatabase } from '../../server/db/sequelize.ts';
 import { balanceSchema, referenceMaterialSchema, solventSchema, volumetricWareSchema } from '../../shared/schemas/inventory.ts';
 import { demoBalances } from '../../seed/demo-data.ts';
 import { SeedRefusedError, seedDemoLab } from '../../seed/seed-demo-lab.ts';
+import { DEMO_BASE_DAY, demoDay, demoInstant, demoShiftDays, shiftDemoRecord } from '../../seed/demo-clock.ts';
 import { DEMO, demoPasswordHash, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 
 let t: TestApp;
@@ -64,8 +66,8 @@ describe('read-only inventory lists', () => {
       repeatabilitySdMg: '0.08',
       minWeightMg: '160',
       weightDensityGPerMl: '8.0',
-      calibratedOn: '2026-06-15',
-      calibrationDueOn: '2027-06-15',
+      calibratedOn: demoDay('2026-06-15'), // the demo dates move with the seeding day (seed/demo-clock.ts)
+      calibrationDueOn: demoDay('2027-06-15'),
       status: 'in_service',
     });
     expect(res.body.items.map((b: { identifier: string }) => b.identifier)).toEqual(['BAL-A1', 'BAL-A2', 'BAL-SM1', 'BAL-T1']);
@@ -107,5 +109,35 @@ describe('read-only inventory lists', () => {
     for (const item of res.body.items) expect(solventSchema.strict().safeParse(item).success, JSON.stringify(item)).toBe(true);
     const meoh = res.body.items.find((s: { name: string }) => s.name === 'Methanol');
     expect(meoh).toMatchObject({ density20cGPerMl: '0.7914', expansionCoefficientPerK: '0.0012' });
+  });
+});
+
+describe('demo dates move with the seeding day (seed/demo-clock.ts)', () => {
+  it('shifts days and instants by whole days from the base day, never backwards', () => {
+    expect(demoShiftDays(new Date(`${DEMO_BASE_DAY}T12:00:00Z`))).toBe(0);
+    expect(demoShiftDays(new Date('2026-01-01T00:00:00Z'))).toBe(0); // before the base day: unchanged
+    const later = new Date('2027-03-15T08:00:00Z'); // 104 days after 2026-12-01
+    expect(demoShiftDays(later)).toBe(104);
+    expect(demoDay('2026-11-09', later)).toBe('2027-02-21');
+    expect(demoDay('2028-02-29', later)).toBe('2028-06-12'); // across a leap day
+    expect(demoInstant('2026-11-18T14:03:00Z', later)).toBe('2027-03-02T14:03:00.000Z');
+    expect(shiftDemoRecord({ lot: 'UPW-S1-2026-W49', receivedOn: '2026-11-24', purity: '0.9995' }, later)).toEqual({ lot: 'UPW-S1-2026-W49', receivedOn: '2027-03-08', purity: '0.9995' });
+  });
+
+  it('seeded months after the base day, the demo is still what it was written to be', async () => {
+    const later = new Date('2027-03-15T08:00:00Z');
+    const dir = mkdtempSync(join(tmpdir(), 'tarebook-seed-later-'));
+    const sequelize = await openDatabase(join(dir, 's.sqlite'));
+    try {
+      await migrateUp(sequelize);
+      await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash(), now: later });
+      const [pb] = await sequelize.query<{ status: string; expires_on: string; created_on: string }>("SELECT status, expires_on, created_on FROM preparations WHERE analyte_formula = 'Pb' ORDER BY id LIMIT 1", { type: QueryTypes.SELECT });
+      expect(pb).toMatchObject({ status: 'verified', created_on: '2027-02-21', expires_on: '2027-03-23' }); // 2026-11-09 + 30 d, moved by 104 d: in date
+      const [a2] = await sequelize.query<{ calibration_due_on: string }>("SELECT calibration_due_on FROM balances WHERE identifier = 'BAL-A2'", { type: QueryTypes.SELECT });
+      expect(a2!.calibration_due_on < '2027-03-15').toBe(true); // still the overdue balance of the scenario
+    } finally {
+      await sequelize.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
   });
 });

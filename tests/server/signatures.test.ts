@@ -11,6 +11,7 @@ import { TRANSITIONS, nextStatus } from '../../server/services/preparation-statu
 import { currentRecordHash, verifySignatures } from '../../server/services/signatures.service.ts';
 import { SIGNATURE_MEANING_TEXT, VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { demoInstant } from '../../seed/demo-clock.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'chemist3' | 'technician' | 'qa' | 'admin';
 
@@ -464,7 +465,7 @@ describe('demo seed (seed/demo-preparations.ts)', () => {
     ]);
     const toc = (await send('qa', 'get', `/api/preparations/${seeded[2].identifier}`)).body;
     expect(toc.status).toBe('prepared');
-    expect(toc.signatures).toEqual([expect.objectContaining({ meaning: 'prepared', valid: true, signedAt: '2026-11-18T14:03:00.000Z' })]);
+    expect(toc.signatures).toEqual([expect.objectContaining({ meaning: 'prepared', valid: true, signedAt: demoInstant('2026-11-18T14:03:00Z') })]);
     for (const p of [pb, toc]) expect((await verifySignatures(p.id)).every((c) => c.ok)).toBe(true);
     const forIdris = (await send('chemist2', 'get', `/api/preparations/${toc.identifier}`)).body;
     expect(forIdris.canSign).toMatchObject({ verify: true, return: true });

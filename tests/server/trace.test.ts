@@ -17,6 +17,10 @@ import { REVIEW_FLAGS_NO_DELETE, REVIEW_FLAGS_NO_EDIT } from '../../server/db/mi
 import { decimalsOf } from '../../shared/prep/index.ts';
 import { TRACE_REPORT_COLUMNS } from '../../shared/schemas/trace.ts';
 import { DEMO, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { demoDay } from '../../seed/demo-clock.ts';
+
+/** BAL-SM1 in the demo register: calibrated 2026-06-16, due 2027-06-16, moved with the seeding day. */
+const SM1_STATUS = `in service; calibrated ${demoDay('2026-06-16')}, due ${demoDay('2027-06-16')}`;
 
 let t: TestApp;
 const cookie: Record<string, string> = {};
@@ -175,10 +179,10 @@ describe('three generations', () => {
     const before = await as('qa').get(`/api/trace/${stock.identifier}`);
     const bal = (before.body.backward.nodes as any[]).find((n) => n.type === 'balance');
     expect(bal.detail.identifier).toBe('BAL-SM1');
-    // demo register: calibrated 2026-06-16, due 2027-06-16 (seed/demo-data.ts)
-    expect(bal.status).toBe('in service; calibrated 2026-06-16, due 2027-06-16');
+    // demo register: calibrated 2026-06-16, due 2027-06-16 (seed/demo-data.ts), moved with the seeding day (seed/demo-clock.ts)
+    expect(bal.status).toBe(SM1_STATUS);
     const edge = (before.body.backward.edges as any[]).find((e) => e.from === bal.id && e.relation === 'weighed on');
-    expect(edge.statusAtUse).toBe('in service; calibrated 2026-06-16, due 2027-06-16');
+    expect(edge.statusAtUse).toBe(SM1_STATUS);
 
     // the register is edited afterwards (taken out of service, due date moved): history must not change
     const row = (await Balance.findByPk(ids.balanceSm1))!;
@@ -187,7 +191,7 @@ describe('three generations', () => {
     try {
       const after = await as('qa').get(`/api/trace/${stock.identifier}`);
       const bal2 = (after.body.backward.nodes as any[]).find((n) => n.type === 'balance');
-      expect(bal2.status).toBe('in service; calibrated 2026-06-16, due 2027-06-16');
+      expect(bal2.status).toBe(SM1_STATUS);
       expect(bal2.detail.statusNow).toMatch(/^out of service; calibration overdue \(due 2026-07-01\)/);
     } finally {
       await Balance.update(saved, { where: { id: ids.balanceSm1 } });
@@ -200,7 +204,7 @@ describe('three generations', () => {
     expect(none.body.forwardPreparations).toEqual([]);
     const since = await as('qa').get('/api/trace/BAL-SM1?sinceLastGoodCheck=1');
     expect(since.status).toBe(200);
-    expect(since.body.range.from).toBe('2026-06-16');
+    expect(since.body.range.from).toBe(demoDay('2026-06-16'));
     expect(since.body.forwardPreparations).toEqual(expect.arrayContaining([stock.identifier, d1.identifier, d2.identifier]));
   });
 
@@ -237,7 +241,7 @@ describe('three generations', () => {
     const res = await as('qa').post('/api/trace/BAL-SM1/review-flags', { reason: 'BAL-SM1 failed its weekly check on 2026-12-01', sinceLastGoodCheck: true });
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.identifiers).toEqual(expect.arrayContaining([stock.identifier, d1.identifier, d2.identifier]));
-    expect(res.body.source).toBe('balance BAL-SM1, used since 2026-06-16');
+    expect(res.body.source).toBe(`balance BAL-SM1, used since ${demoDay('2026-06-16')}`);
     const trace = await as('qa').get('/api/trace/BAL-SM1?sinceLastGoodCheck=1');
     expect([...res.body.identifiers].sort()).toEqual([...trace.body.forwardPreparations].sort());
   });
@@ -293,7 +297,7 @@ describe('three generations', () => {
     const balance = lines.find((l) => l.includes(',balance,BAL-SM1,'));
     expect(balance).toBeDefined();
     expect(balance!.startsWith('2,')).toBe(true);
-    expect(balance).toContain('in service; calibrated 2026-06-16, due 2027-06-16');
+    expect(balance).toContain(SM1_STATUS);
     expect(lines.some((l) => l.startsWith('2,material_lot,NRM-23-0072,'))).toBe(true);
     const exports = await AuditEntry.findAll({ where: { action: 'export', entity: 'preparation', entityId: String(d2.id) } });
     expect(exports.length).toBeGreaterThanOrEqual(1);
