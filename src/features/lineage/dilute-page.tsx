@@ -15,7 +15,7 @@ import { preparationQueries } from '../preparations/api/preparation-queries.ts';
 import { percent, qty } from '../preparations/format.ts';
 import { lineageQueries, useCreateDilution } from './api/lineage-api.ts';
 import { aliquotFor, expectedDilution } from './expected-dilution.ts';
-import { labToday, parentRefusal } from './parent-check.ts';
+import { labToday, parentConcentration, parentRefusal } from './parent-check.ts';
 import { D } from '../../../shared/calc/decimal.ts';
 import type { VolumetricWare } from '../../../shared/schemas/inventory.ts';
 import type { DilutionMethod } from '../../../shared/schemas/lineage.ts';
@@ -67,7 +67,7 @@ export function DilutePage() {
 
   const pipette = pipettes.data.find((w) => String(w.id) === pipetteId);
   const flask = flasks.data?.find((w) => String(w.id) === flaskId);
-  const conc = parent.data?.result?.concentration;
+  const conc = parent.data ? parentConcentration(parent.data) : null;
   const aliquot = conc && flask && target ? aliquotFor(target, conc.value, flask.nominalVolumeMl) : null;
   // A piston pipette is set to the aliquot the target needs (within its range); a bulb pipette delivers its nominal volume.
   const pistonSet = pipette?.kind === 'piston_pipette' && aliquot && new D(aliquot).lte(pipette.nominalVolumeMl) && new D(aliquot).gte(new D(pipette.nominalVolumeMl).times('0.1')) ? new D(aliquot).toSignificantDigits(4).toString() : null;
@@ -126,10 +126,10 @@ export function DilutePage() {
       <PageHeader title={<span>Make a dilution of <span className="num">{p.identifier}</span></span>}>
         <p>
           {p.materialName} as <span className="num">{p.analyteFormula}</span>
-          {p.result ? (
+          {conc ? (
             <>
               {' '}
-              · parent <span className="num font-semibold text-ink" data-testid="dilute-parent-conc">{p.result.concentration.display}</span>
+              · parent <span className="num font-semibold text-ink" data-testid="dilute-parent-conc">{conc.display}</span>
             </>
           ) : null}{' '}
           · expires <span className="num">{p.expiry.expiresOn}</span>

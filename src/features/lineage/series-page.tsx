@@ -17,7 +17,7 @@ import { D } from '../../../shared/calc/decimal.ts';
 import { lineageQueries, useCreateSeries, useSeriesProposal } from './api/lineage-api.ts';
 import { usePipettes, wareLabel } from './dilute-page.tsx';
 import { expectedDilution } from './expected-dilution.ts';
-import { labToday, parentRefusal } from './parent-check.ts';
+import { labToday, parentConcentration, parentRefusal } from './parent-check.ts';
 import type { SeriesCreated } from './types.ts';
 
 const MIN_LEVELS = 5;
@@ -44,7 +44,7 @@ export function SeriesPage() {
   const [targets, setTargets] = useState<string[] | null>(null);
   const [rows, setRows] = useState<Row[] | null>(null);
   const [created, setCreated] = useState<SeriesCreated | null>(null);
-  const conc = parent.data?.result?.concentration;
+  const conc = parent.data ? parentConcentration(parent.data) : null;
   const shown = useMemo(() => targets ?? defaultTargets(count, conc?.value), [targets, count, conc?.value]);
 
   if (parent.isPending) return <Spinner label="Loading the parent standard…" />;
@@ -102,7 +102,7 @@ export function SeriesPage() {
       <PageHeader title={<span>Calibration series from <span className="num">{p.identifier}</span></span>}>
         <p>
           {p.materialName} as <span className="num">{p.analyteFormula}</span>
-          {p.result ? <> · parent <span className="num font-semibold text-ink">{p.result.concentration.display}</span></> : null} · every level is made
+          {conc ? <> · parent <span className="num font-semibold text-ink">{conc.display}</span></> : null} · every level is made
           directly from this parent.
         </p>
       </PageHeader>

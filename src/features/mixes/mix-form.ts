@@ -13,19 +13,13 @@ import { mixInputSchema, type MixInput } from '../../../shared/schemas/lineage.t
 import type { VolumetricWare } from '../../../shared/schemas/inventory.ts';
 import type { PreparationDetail } from '../preparations/types.ts';
 import { expectedDilution, type ExpectedDilution } from '../lineage/expected-dilution.ts';
+import { parentConcentration, type ParentConcentration } from '../lineage/parent-check.ts';
 import type { LineageSection } from '../lineage/types.ts';
 
 export const MIN_COMPONENTS = 2;
 export const MAX_COMPONENTS = 10;
 
-export type ParentConcentration = { value: string; unit: string; standardUncertainty: string; display: string };
-
-/** A parent's concentration as the server will use it: a stock's result, a dilution's result. */
-export function parentConcentration(d: PreparationDetail): ParentConcentration | null {
-  const l = d as PreparationDetail & LineageSection;
-  const c = d.result?.concentration ?? l.dilution?.result ?? null;
-  return c ? { value: c.value, unit: c.unit, standardUncertainty: c.standardUncertainty, display: c.display } : null;
-}
+export { parentConcentration, type ParentConcentration } from '../lineage/parent-check.ts';
 
 /** Why `d` cannot go into a mix today, or null. */
 export function mixParentRefusal(d: PreparationDetail, today: string): string | null {

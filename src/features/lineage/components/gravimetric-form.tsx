@@ -6,6 +6,7 @@
  * creates the record. The preview here is approximate (water density, no buoyancy) and says so.
  */
 import { useState, type FormEvent, type ReactNode } from 'react';
+import { parentConcentration } from '../parent-check.ts';
 import { useMutation, useQuery, useQueryClient } from '@tanstack/react-query';
 import { useNavigate } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
@@ -13,7 +14,6 @@ import { Banner, CautionBox, Panel } from '../../../components/ui/feedback.tsx';
 import { api, type ApiError } from '../../../lib/api-client.ts';
 import { D } from '../../../../shared/calc/decimal.ts';
 import { gravimetricPlanInputSchema, type GravimetricPlanInput } from '../../../../shared/schemas/gravimetric.ts';
-import type { LineageSection } from '../../../../shared/schemas/lineage.ts';
 import { pickerQueries } from '../../preparations/api/preparation-queries.ts';
 import { preparationKeys } from '../../preparations/api/preparation-keys.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
@@ -33,15 +33,6 @@ function Field({ id, label, error, hint, children }: { id: string; label: string
       ) : null}
     </div>
   );
-}
-
-/** The parent's concentration as a parent: a stock's result, a volumetric dilution's result, a gravimetric one's mass concentration. */
-export function parentConcentration(p: PreparationDetail): { value: string; unit: string; display: string } | null {
-  const l = p as PreparationDetail & LineageSection;
-  if (p.result) return p.result.concentration;
-  if (l.dilution?.result) return l.dilution.result;
-  if (l.gravimetric?.result) return l.gravimetric.result.massConcentration;
-  return null;
 }
 
 /** zod issues of the shared schema → { 'dotted.path': message } (first message per field). */

@@ -61,6 +61,8 @@ export function DilutionPlanPanel({ d }: { d: PreparationDetail }) {
 export function DilutionActions({ d }: { d: PreparationDetail }) {
   const auth = useAuth();
   if (auth.status !== 'signed-in' || auth.user.role !== 'chemist') return null;
+  // a mix cannot be a parent yet (the server refuses it): no dilution or series actions on it
+  if ((d as PreparationDetail & Lineage).kind === 'mix') return null;
   const key = encodeURIComponent(d.identifier);
   const ready = d.status === 'verified';
   return (
