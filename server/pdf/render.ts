@@ -1,17 +1,11 @@
 /**
- * PDF rendering entry points (server only). Fonts are registered on first use.
+ * PDF rendering entry points (server only). Fonts are loaded and prepared once, before the first render.
  */
-import { createElement, type ReactElement } from 'react';
-import { renderToBuffer, type DocumentProps } from '@react-pdf/renderer';
-import { registerFonts } from './fonts.ts';
+import { createElement } from 'react';
+import { renderDocument as render } from './document.ts';
 import { LabelsDocument, type LabelsData } from './labels.tsx';
 import { MinimalDocument } from './minimal.tsx';
 import { PrepSheetDocument, type PrepSheetData } from './prep-sheet.tsx';
-
-async function render(element: ReactElement): Promise<Buffer> {
-  registerFonts();
-  return renderToBuffer(element as ReactElement<DocumentProps>);
-}
 
 export const renderPrepSheet = (data: PrepSheetData) => render(createElement(PrepSheetDocument, { data }));
 export const renderLabels = (data: LabelsData) => render(createElement(LabelsDocument, { data }));

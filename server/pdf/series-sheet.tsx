@@ -7,11 +7,12 @@
  * the material; signature lines. Values are the stored decimal strings and the API's `display` texts; nothing
  * is recomputed here. Rendered on the server only, with the fonts and shaping of the prep sheet (fonts.ts).
  */
-import { createElement, type ReactElement } from 'react';
-import { Document, Image, Page, renderToBuffer, StyleSheet, Text, View, type DocumentProps } from '@react-pdf/renderer';
+import { createElement } from 'react';
+import { Document, Image, Page, StyleSheet, Text, View } from '@react-pdf/renderer';
 import type { SeriesDetail, SeriesLevelDetail } from '../../shared/schemas/lineage.ts';
 import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
-import { fontFor, PLAIN_SHAPING, registerFonts, TEXT_FONT } from './fonts.ts';
+import { renderDocument } from './document.ts';
+import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay } from './format.ts';
 
 export interface SeriesSheetData {
@@ -223,6 +224,5 @@ export function SeriesSheetDocument({ data }: { data: SeriesSheetData }) {
 }
 
 export async function renderSeriesSheet(data: SeriesSheetData): Promise<Buffer> {
-  registerFonts();
-  return renderToBuffer(createElement(SeriesSheetDocument, { data }) as ReactElement<DocumentProps>);
+  return renderDocument(createElement(SeriesSheetDocument, { data }));
 }

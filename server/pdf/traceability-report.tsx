@@ -4,10 +4,11 @@
  * (from the snapshots stored at the time) beside its status now. Rendered on the server only, with the fonts
  * the prep sheet uses (fonts.ts); the client never imports this module.
  */
-import { createElement, type ReactElement } from 'react';
-import { Document, Page, renderToBuffer, StyleSheet, Text, View, type DocumentProps } from '@react-pdf/renderer';
+import { createElement } from 'react';
+import { Document, Page, StyleSheet, Text, View } from '@react-pdf/renderer';
 import type { TraceReportRow, TraceSubject } from '../../shared/schemas/trace.ts';
-import { fontFor, PLAIN_SHAPING, registerFonts, TEXT_FONT } from './fonts.ts';
+import { renderDocument } from './document.ts';
+import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime } from './format.ts';
 
 export interface TraceabilityReportData {
@@ -135,6 +136,5 @@ export function TraceabilityReportDocument({ data }: { data: TraceabilityReportD
 }
 
 export async function renderTraceabilityReport(data: TraceabilityReportData): Promise<Buffer> {
-  registerFonts();
-  return renderToBuffer(createElement(TraceabilityReportDocument, { data }) as unknown as ReactElement<DocumentProps>);
+  return renderDocument(createElement(TraceabilityReportDocument, { data }));
 }

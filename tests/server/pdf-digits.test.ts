@@ -1,7 +1,7 @@
 // Regression: the prep sheet of a seeded record keeps every digit and decimal point of its numbers.
-// Switching off too many OpenType features in fontkit (ccmp/locl/mark/kern) once printed "0.9995" as
-// ".9995" and "160.07" as "160 07" on the demo lead record in the running server (seen with pdftotext). Under
-// vitest the old setting did not reproduce it, so this is a guard on the printed numbers, not a proof of the fix.
+// "0.9995" once printed as ".9995" and "160.07" as "160 07" on the demo lead record in the running server (seen with
+// pdftotext). The cause, a glyph cache that depended on the order of renders, is reproduced deterministically in
+// pdf-glyphs.test.tsx; every PDF kind over HTTP is checked in tests/e2e/pdf-numbers.e2e.test.ts.
 import { execFileSync } from 'node:child_process';
 import { PDFParse } from 'pdf-parse';
 import request from 'supertest';
