@@ -20,6 +20,8 @@ export interface Config {
   loginRateWindowMs: number;
   /** Consecutive failed sign-ins that lock an account (REQUIREMENTS PW-03 default 5). */
   lockoutThreshold: number;
+  /** Base of the per-account delay after a failed sign-in, ms, doubling per failure (LOGIN_DELAY_MS, default 1000; 0 = off). */
+  loginDelayMs: number;
   /** Base of the links in e-mails (PUBLIC_URL); null = http://localhost:<port> once listening. */
   publicUrl: string | null;
   mail: MailConfig;
@@ -98,6 +100,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     loginRateLimit: intFrom(env, 'LOGIN_RATE_LIMIT', 30, 1),
     loginRateWindowMs: 15 * 60 * 1000,
     lockoutThreshold: intFrom(env, 'LOCKOUT_THRESHOLD', 5, 3),
+    loginDelayMs: intFrom(env, 'LOGIN_DELAY_MS', 1000),
     publicUrl: env.PUBLIC_URL ? env.PUBLIC_URL.replace(/\/+$/, '') : null,
     mail: mailConfig(env, production),
   };

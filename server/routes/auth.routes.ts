@@ -4,6 +4,7 @@ import { loginInputSchema } from '../../shared/schemas/auth.ts';
 import type { Config } from '../config.ts';
 import { toApiError } from '../errors/to-api-error.ts';
 import { AppError } from '../errors/app-error.ts';
+import { LoginThrottle } from '../middleware/login-throttle.ts';
 import { requireAuth } from '../middleware/session.ts';
 import { signIn, signOut } from '../services/auth.service.ts';
 
@@ -25,9 +26,26 @@ export function authRouter(config: Config): Router {
     },
   });
 
+  const throttle = new LoginThrottle(config.loginDelayMs);
+
   router.post('/auth/login', loginLimiter, async (req, res) => {
     const input = loginInputSchema.parse(req.body);
-    const user = await signIn(input, { lockoutThreshold: config.lockoutThreshold });
+    const wait = throttle.waitMs(input.email);
+    if (wait > 0) {
+      const seconds = Math.ceil(wait / 1000);
+      res.setHeader('Retry-After', String(seconds));
+      throw new AppError('rate_limited', 429, `Too many failed sign-ins for this account; wait ${seconds} s and try again`, {
+        fields: { email: `Wait ${seconds} s before the next attempt for this account` },
+      });
+    }
+    let user;
+    try {
+      user = await signIn(input, { lockoutThreshold: config.lockoutThreshold });
+    } catch (err) {
+      if (err instanceof AppError && (err.status === 401 || err.status === 423)) throttle.failed(input.email);
+      throw err;
+    }
+    throttle.succeeded(input.email);
     req.session.userId = user.id;
     req.session.signedInAt = new Date().toISOString();
     await req.session.save();

@@ -301,13 +301,19 @@ export const AUDIT_CSV_COLUMNS = [
 
 /**
  * One CSV field (RFC 4180 §2): quoted when it holds a comma, a double quote, CR or LF, or leading or
- * trailing spaces; quotes doubled. Values are written exactly as stored (no formula escaping, which
- * would alter the record); open the file as text in a spreadsheet.
+ * trailing spaces; quotes doubled. A value that a spreadsheet would run as a formula (first character
+ * =, +, -, @, tab or CR; OWASP "CSV Injection") is made inert with a leading apostrophe, and so is a value
+ * that already begins with an apostrophe, so the export stays reversible: the stored value is the cell with
+ * one leading apostrophe removed wherever a cell begins with one (see csvStoredValue).
  */
 export function csvField(value: unknown): string {
-  const s = value === null || value === undefined ? '' : typeof value === 'string' ? value : canonicalJson(value);
+  let s = value === null || value === undefined ? '' : typeof value === 'string' ? value : canonicalJson(value);
+  if (/^[=+\-@\t\r']/.test(s)) s = `'${s}`;
   return /[",\r\n]|^\s|\s$/.test(s) ? `"${s.replace(/"/g, '""')}"` : s;
 }
+
+/** The stored value of an unquoted CSV cell written by csvField (the inverse of the apostrophe rule). */
+export const csvStoredValue = (cell: string): string => (cell.startsWith("'") ? cell.slice(1) : cell);
 
 export function csvLine(values: unknown[]): string {
   return `${values.map(csvField).join(',')}\r\n`;

@@ -11,6 +11,7 @@ import type { Transaction } from 'sequelize';
 import type { Certificate as CertificateDto } from '../../shared/schemas/inventory.ts';
 import { MaterialCertificate, ReferenceMaterial, User } from '../db/models/index.ts';
 import { writeTransaction } from '../db/transaction.ts';
+import { textProblem } from '../../shared/schemas/text.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
 import type { Actor } from './inventory.service.ts';
@@ -28,16 +29,41 @@ export function detectCertificateType(bytes: Uint8Array): CertificateMime | null
   return null;
 }
 
+/** The file-name extensions that go with each type; a name must end in one of them (or have none). */
+const NAME_EXTENSIONS: Record<CertificateMime, string[]> = { 'application/pdf': ['pdf'], 'image/png': ['png'], 'image/jpeg': ['jpg', 'jpeg'] };
+
+/**
+ * True when the bytes after the magic number show markup a browser would run: an HTML or SVG document
+ * (or a script) hidden behind "%PDF-" or an image signature. Checked in the first 4 KiB, where a polyglot
+ * file must put its markup for a browser to sniff it (WHATWG MIME Sniffing §7.1 reads at most 1445 bytes).
+ */
+export function looksLikeMarkup(bytes: Uint8Array): boolean {
+  const head = Buffer.from(bytes.subarray(0, 4096)).toString('latin1').toLowerCase();
+  return /<(!doctype\s+html|html|head|body|script|svg|iframe|object|embed)[\s>/]|<\?xml[\s\S]*<svg/.test(head);
+}
+
+/** The name to store and serve: its extension must match the type; a name without one gets it. */
+export function nameForType(name: string, mime: CertificateMime): string | null {
+  const m = /\.([A-Za-z0-9]{1,10})$/.exec(name);
+  if (!m) return `${name}.${EXTENSION[mime]}`;
+  return NAME_EXTENSIONS[mime].includes(m[1]!.toLowerCase()) ? name : null;
+}
+
 export const certificatesDir = (dataDir: string) => join(dataDir, 'certificates');
 
 /**
  * The name as the user's computer had it: path parts and control characters removed, at most 200
  * characters. Busboy reads header parameters as latin1; a name that is valid UTF-8 read that way is decoded.
  */
-export function cleanOriginalName(raw: string | undefined): string {
-  let name = raw ?? '';
+/** The file name as sent: busboy reads header parameters as latin1; a name that is valid UTF-8 read that way is decoded. */
+export function decodeUploadName(raw: string | undefined): string {
+  const name = raw ?? '';
   const asUtf8 = Buffer.from(name, 'latin1').toString('utf8');
-  if (/[\u0080-\u00ff]/.test(name) && !asUtf8.includes('\ufffd')) name = asUtf8;
+  return /[\u0080-\u00ff]/.test(name) && !asUtf8.includes('\ufffd') ? asUtf8 : name;
+}
+
+export function cleanOriginalName(raw: string | undefined): string {
+  let name = decodeUploadName(raw);
   name = basename(name.replace(/\\/g, '/')).replace(/[\u0000-\u001f\u007f]/g, '').trim();
   return (name || 'certificate').slice(0, 200);
 }
@@ -93,6 +119,22 @@ export async function uploadCertificate(
       fields: { file: 'Upload a PDF, PNG or JPEG file' },
     });
   }
+  if (looksLikeMarkup(file.buffer)) {
+    throw new AppError('unsupported_media_type', 415, 'The file holds web-page markup (HTML or SVG) behind its PDF or image header and was refused', {
+      fields: { file: 'Upload the certificate as a plain PDF, PNG or JPEG file' },
+    });
+  }
+  // direction overrides and the like are refused (they make the name read differently); control characters
+  // that a browser put there are removed by cleanOriginalName as before
+  const nameProblem = textProblem(decodeUploadName(file.originalname).replace(/[\u0000-\u001f\u007f-\u009f]/g, ''));
+  if (nameProblem) throw AppError.validation(`The file name: ${nameProblem}`, { file: `Rename the file: ${nameProblem}` });
+  const originalName = nameForType(cleanOriginalName(file.originalname), mimeType);
+  if (!originalName) {
+    const ext = EXTENSION[mimeType];
+    throw new AppError('unsupported_media_type', 415, `The file's name does not end in .${ext} but its content is ${mimeType}`, {
+      fields: { file: `The content is ${mimeType}: rename the file to end in .${ext}` },
+    });
+  }
   const dir = certificatesDir(dataDir);
   await mkdir(dir, { recursive: true });
   const storedName = `${randomUUID()}.${EXTENSION[mimeType]}`;
@@ -108,7 +150,7 @@ export async function uploadCertificate(
         {
           materialId,
           version: (last ?? 0) + 1,
-          originalName: cleanOriginalName(file.originalname),
+          originalName,
           storedName,
           mimeType,
           sizeBytes: file.size,
@@ -158,5 +200,6 @@ export async function certificateFile(dataDir: string, id: number): Promise<{ pa
   if (!row) throw AppError.notFound('Certificate');
   const path = join(certificatesDir(dataDir), basename(row.storedName));
   if (!existsSync(path)) throw new AppError('file_missing', 404, `The stored file of certificate ${id} is missing from the data folder`);
-  return { path, originalName: row.originalName, mimeType: row.mimeType };
+  // rows stored before names had to match their type are served with the type's extension
+  return { path, originalName: nameForType(row.originalName, row.mimeType) ?? `${row.originalName}.${EXTENSION[row.mimeType]}`, mimeType: row.mimeType };
 }

@@ -469,10 +469,11 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
   if (q.search) {
     const pattern = `%${likeEscape(q.search)}%`;
     const esc = Preparation.sequelize!.escape(pattern);
+    // ESCAPE on every LIKE, so % and _ in the search are plain characters
     and.push({
       [Op.or]: [
-        { identifier: { [Op.like]: pattern } },
-        { analyteFormula: { [Op.like]: pattern } },
+        literal(`\`Preparation\`.\`identifier\` LIKE ${esc} ESCAPE '\\'`),
+        literal(`\`Preparation\`.\`analyte_formula\` LIKE ${esc} ESCAPE '\\'`),
         literal(`json_extract(snapshot_material, '$.name') LIKE ${esc} ESCAPE '\\'`),
       ],
     } as WhereOptions);

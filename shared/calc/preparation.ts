@@ -336,7 +336,18 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
     rhoAU = r.standardUncertainty.div(1000);
     airMethod = 'CIPM-2007';
   }
-  const B = withField('material.density.value', () => buoyancyFactor({ airDensity: rhoA, sampleDensity: rhoSg, weightDensity: rhoW }));
+  // A refusal names the density that is out of place: a given air density when air was entered as a density,
+  // else the sample's or the weights' density (METROLOGY §2.1 needs ρa < ρ and ρa < ρw).
+  let B: Dec;
+  try {
+    B = buoyancyFactor({ airDensity: rhoA, sampleDensity: rhoSg, weightDensity: rhoW });
+  } catch (e) {
+    if (!(e instanceof CalcError)) throw e;
+    const input = e.details?.input;
+    throw e.at(
+      airMethod === 'given' ? 'air.density.value' : input === 'weightDensity' ? (req.balance?.weightDensity ? 'balance.weightDensity.value' : 'air') : 'material.density.value',
+    );
+  }
 
   // ---- solution density for mass-fraction targets
   let rhoSol: Dec | undefined;

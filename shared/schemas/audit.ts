@@ -1,5 +1,6 @@
 /** Audit trail: the list/export filters and the entry shape the client reads (REQUIREMENTS AT-02, AT-07). */
 import { z } from 'zod';
+import { lineText } from './text.ts';
 
 const isoDate = (what: string) =>
   z
@@ -13,8 +14,7 @@ const isoDate = (what: string) =>
 
 /** Query-string text filter: empty means "no filter". */
 const textFilter = (max: number) =>
-  z
-    .string()
+  lineText()
     .trim()
     .max(max, `Use at most ${max} characters`)
     .optional()

@@ -1,9 +1,9 @@
 import { z } from 'zod';
+import { lineText } from './text.ts';
 import { roleSchema } from './roles.ts';
 
 export const loginInputSchema = z.object({
-  email: z
-    .string({ error: 'Enter your email address' })
+  email: lineText({ error: 'Enter your email address' })
     .trim()
     .min(1, 'Enter your email address')
     .max(254, 'Email address is too long'),

@@ -6,6 +6,7 @@
  * same dotted field paths.
  */
 import { z } from 'zod';
+import { lineText } from './text.ts';
 import Decimal from 'decimal.js';
 import {
   DECIMAL_STRING_RE,
@@ -18,6 +19,7 @@ import {
   isMassUnit,
   isVolumeUnit,
 } from '../calc/index.ts';
+import { PLAUSIBLE, checkConcentration, checkQuantity, inRange, type Range } from './plausible.ts';
 import type { PreparationRequest, CalcPreparationResponse } from '../calc/preparation.ts';
 
 export type { CalcPreparationResponse };
@@ -48,15 +50,19 @@ const massUnit = (what: string) => unitString(isMassUnit, MASS_UNITS, what);
 const densityUnit = (what: string) => unitString(isDensityUnit, DENSITY_UNITS, what);
 
 const densityQuantity = (what: string) => z.object({ value: positiveDecimal(what), unit: densityUnit(what) });
+/** A density within its plausible range (shared/schemas/plausible.ts states each range and its reason). */
+const plausibleDensity = (what: string, r: Range) => densityQuantity(what).superRefine(checkQuantity('density', r, what));
 
 const puritySchema = z
   .object({
-    value: positiveDecimal('the purity').refine((s) => asDecimal(s)?.lte(1) ?? true, 'Purity is a mass fraction: 0 < P ≤ 1 (e.g. 0.9995)'),
-    standardUncertainty: nonNegativeDecimal('the purity standard uncertainty').optional(),
-    expandedUncertainty: nonNegativeDecimal('the purity expanded uncertainty').optional(),
-    k: positiveDecimal('the coverage factor k').optional(),
+    value: positiveDecimal('the purity')
+      .refine((s) => asDecimal(s)?.lte(1) ?? true, 'Purity is a mass fraction: 0 < P ≤ 1 (e.g. 0.9995)')
+      .superRefine(inRange(PLAUSIBLE.purity, 'the purity')),
+    standardUncertainty: nonNegativeDecimal('the purity standard uncertainty').superRefine(inRange(PLAUSIBLE.purityUncertainty, 'the purity standard uncertainty')).optional(),
+    expandedUncertainty: nonNegativeDecimal('the purity expanded uncertainty').superRefine(inRange(PLAUSIBLE.purityUncertainty, 'the purity expanded uncertainty')).optional(),
+    k: positiveDecimal('the coverage factor k').superRefine(inRange(PLAUSIBLE.coverageFactor, 'the coverage factor k')).optional(),
     /** rectangular half-width, e.g. 0.0005 for "≥ 99.9 %" taken as 0.9995 ± 0.0005 */
-    halfWidth: nonNegativeDecimal('the purity half-width').optional(),
+    halfWidth: nonNegativeDecimal('the purity half-width').superRefine(inRange(PLAUSIBLE.purityUncertainty, 'the purity half-width')).optional(),
   })
   .superRefine((p, ctx) => {
     const given = [p.standardUncertainty, p.expandedUncertainty, p.halfWidth].filter((x) => x !== undefined).length;
@@ -78,7 +84,7 @@ const airSchema = z
     co2MoleFraction: decimalString('the CO2 mole fraction')
       .refine((s) => { const d = asDecimal(s); return d === null || (!d.isNeg() && d.lte('0.01')); }, 'CO2 mole fraction must be from 0 to 0.01 (0.0004 = 400 ppm)')
       .optional(),
-    density: densityQuantity('the air density').optional(),
+    density: plausibleDensity('the air density', PLAUSIBLE.airDensity).optional(),
   })
   .superRefine((a, ctx) => {
     const cond = { temperatureC: a.temperatureC, pressureHPa: a.pressureHPa, relativeHumidityPct: a.relativeHumidityPct };
@@ -96,36 +102,51 @@ const airSchema = z
   });
 
 export const calcPreparationRequestSchema = z.object({
-  target: z.object({
-    value: positiveDecimal('the target concentration'),
-    unit: unitString(isConcentrationUnit, CONCENTRATION_UNITS, 'the target concentration'),
-    /** needed only for mass-fraction targets (mg/kg, µg/g …) */
-    solutionDensity: densityQuantity('the solution density').optional(),
-  }),
-  volume: z.object({
-    value: positiveDecimal('the volume'),
-    unit: unitString(isVolumeUnit, VOLUME_UNITS, 'the volume'),
-    standardUncertainty: nonNegativeDecimal('the volume standard uncertainty').optional(),
-  }),
+  target: z
+    .object({
+      value: positiveDecimal('the target concentration'),
+      unit: unitString(isConcentrationUnit, CONCENTRATION_UNITS, 'the target concentration'),
+      /** needed only for mass-fraction targets (mg/kg, µg/g …) */
+      solutionDensity: plausibleDensity('the solution density', PLAUSIBLE.solutionDensity).optional(),
+    })
+    .superRefine((t, ctx) => checkConcentration(t, ctx)),
+  volume: z
+    .object({
+      value: positiveDecimal('the volume'),
+      unit: unitString(isVolumeUnit, VOLUME_UNITS, 'the volume'),
+      standardUncertainty: nonNegativeDecimal('the volume standard uncertainty').optional(),
+    })
+    .superRefine(checkQuantity('volume', PLAUSIBLE.volume, 'the volume'))
+    .superRefine((v, ctx) => {
+      // an uncertainty as large as the volume itself says nothing about it
+      const u = asDecimal(v.standardUncertainty ?? ''), x = asDecimal(v.value);
+      if (u && x && u.gte(x)) ctx.addIssue({ code: 'custom', path: ['standardUncertainty'], message: 'The volume standard uncertainty must be smaller than the volume' });
+    }),
   material: z.object({
-    formula: z.string().trim().max(200, 'Use at most 200 characters').optional(),
-    analyteFormula: z.string().trim().max(200, 'Use at most 200 characters').optional(),
+    formula: lineText().trim().max(200, 'Use at most 200 characters').optional(),
+    analyteFormula: lineText().trim().max(200, 'Use at most 200 characters').optional(),
     purity: puritySchema,
-    density: densityQuantity('the material density'),
+    density: plausibleDensity('the material density', PLAUSIBLE.materialDensity),
   }),
   balance: z
     .object({
-      weightDensity: densityQuantity('the weight density').optional(),
+      weightDensity: plausibleDensity('the weight density', PLAUSIBLE.weightDensity).optional(),
       standardUncertainty: z
         .object({ value: nonNegativeDecimal('the balance standard uncertainty'), unit: massUnit('the balance standard uncertainty') })
+        .superRefine(checkQuantity('mass', PLAUSIBLE.balanceMass, 'the balance standard uncertainty'))
         .optional(),
-      readability: z.object({ value: positiveDecimal('the balance readability'), unit: massUnit('the balance readability') }).optional(),
+      readability: z
+        .object({ value: positiveDecimal('the balance readability'), unit: massUnit('the balance readability') })
+        .superRefine(checkQuantity('mass', PLAUSIBLE.readability, 'the balance readability'))
+        .optional(),
     })
     .optional(),
   air: airSchema,
   weighing: z
     .object({
-      reading: z.object({ value: positiveDecimal('the balance reading'), unit: massUnit('the balance reading') }),
+      reading: z
+        .object({ value: positiveDecimal('the balance reading'), unit: massUnit('the balance reading') })
+        .superRefine(checkQuantity('mass', PLAUSIBLE.balanceMass, 'the balance reading')),
     })
     .optional(),
   rounding: z.enum(['half-even', 'half-up'], { error: 'Rounding must be half-even or half-up' }).optional(),

@@ -8,6 +8,7 @@
  * lab date (settings time zone) is after expiresOn. The pure rules here are shared by the server and the form.
  */
 import { z } from 'zod';
+import { multilineText } from './text.ts';
 import { isIsoDate } from '../prep/dates.ts';
 
 // ---------------------------------------------------------------- expired on read
@@ -85,8 +86,7 @@ export const expiryExtensionInputSchema = z.object({
     .trim()
     .min(1, { error: 'Enter the new expiry date', abort: true })
     .refine(isIsoDate, 'Enter the new expiry as a calendar date YYYY-MM-DD, e.g. 2027-03-01'),
-  reason: z
-    .string({ error: 'Give the reason and the evidence for the extension' })
+  reason: multilineText({ error: 'Give the reason and the evidence for the extension' })
     .trim()
     .min(3, 'Give the reason and the evidence for the extension (at least 3 characters)')
     .max(500, 'Use at most 500 characters'),

@@ -8,6 +8,8 @@
  * Decimal strings throughout; readings keep the digits the balance showed.
  */
 import { z } from 'zod';
+import { PLAUSIBLE, inRange } from './plausible.ts';
+import { multilineText } from './text.ts';
 import Decimal from 'decimal.js';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 import type { DilutionResult } from '../calc/dilution.ts';
@@ -27,7 +29,7 @@ const positive = (what: string) => decimal(what, (d) => d.gt(0), `${what.charAt(
 /** solution densities a laboratory meets (g/mL); outside this an entry is almost certainly a unit slip (kg/m³) */
 const density = (what: string) => decimal(what, (d) => d.gte('0.5') && d.lte('2.5'), `Enter ${what} in g/mL, between 0.5 and 2.5 (water is about 0.998)`);
 const id = (what: string) => z.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
-const reason = (what: string) => z.string({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
+const reason = (what: string) => multilineText({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
 /** a balance reading exactly as shown: plain digits and a point, never an exponent */
 const reading = (what: string) =>
   z
@@ -40,18 +42,18 @@ const reading = (what: string) =>
 /** Body of POST /api/preparations/:key/gravimetric-dilutions (key = a verified, in-date parent). */
 export const gravimetricPlanInputSchema = z.object({
   target: z.object({
-    value: positive('the target mass fraction'),
+    value: positive('the target mass fraction').superRefine(inRange(PLAUSIBLE.massFraction, 'the target mass fraction')),
     unit: z.literal('mg/kg', { error: 'Give the target of a gravimetric dilution in mg/kg' }),
   }),
   balanceId: id('a balance'),
   /** true mass of the final solution to make, g */
-  plannedFinalMassG: positive('the planned final mass'),
+  plannedFinalMassG: positive('the planned final mass').superRefine(inRange(PLAUSIBLE.finalMass, 'the planned final mass')),
   /** density of the parent solution, g/mL (default: water at the parent's make-up temperature, see GRAVIMETRIC_DENSITY_DEFAULT) */
   parentDensity: density('the parent solution density').optional(),
   /** density of the final solution, g/mL (default: water at the room temperature) */
   finalDensity: density('the final solution density').optional(),
   solventId: id('the solvent').optional(),
-  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+  notes: multilineText().trim().max(2000, 'Use at most 2000 characters').optional(),
 });
 export type GravimetricPlanInput = z.output<typeof gravimetricPlanInputSchema>;
 

@@ -4,6 +4,8 @@
  */
 import Decimal from 'decimal.js';
 import { z } from 'zod';
+import { lineText, multilineText } from './text.ts';
+import { PLAUSIBLE, inRange } from './plausible.ts';
 import { isIsoDate } from '../prep/dates.ts';
 import { DECIMAL_TEXT, decimalCheck } from './decimal-text.ts';
 
@@ -142,7 +144,7 @@ const q = <T extends z.ZodType>(s: T) => z.preprocess(blankToUndefined, s.option
 
 const listQueryBase = <K extends readonly [string, ...string[]]>(sortKeys: K, defaultSort: K[number]) =>
   z.object({
-    search: q(z.string().trim().max(200, 'Use at most 200 characters')),
+    search: q(lineText().trim().max(200, 'Use at most 200 characters')),
     sort: z.preprocess(blankToUndefined, z.enum(sortKeys, { error: `Sort by one of: ${sortKeys.join(', ')}` }).default(defaultSort as never)),
     dir: z.preprocess(blankToUndefined, z.enum(SORT_DIRS, { error: 'Use asc or desc' }).default('asc')),
     page: z.preprocess(
@@ -195,12 +197,11 @@ const blankToNull = (v: unknown) => (typeof v === 'string' && v.trim() === '' ? 
 const opt = <T extends z.ZodType>(s: T) => z.preprocess(blankToNull, s.nullable()).optional();
 
 const requiredName = (label: string, max = 200) =>
-  z
-    .string({ error: `Enter the ${label}` })
+  lineText({ error: `Enter the ${label}` })
     .trim()
     .min(1, `Enter the ${label}`)
     .max(max, `Use at most ${max} characters`);
-const freeText = (max = 500) => z.string({ error: 'Enter text' }).trim().max(max, `Use at most ${max} characters`);
+const freeText = (max = 500) => lineText({ error: 'Enter text' }).trim().max(max, `Use at most ${max} characters`);
 
 const positive = (message: string) => decimalCheck((d) => d.gt(0), message);
 
@@ -253,7 +254,7 @@ const identifierSchema = z
   .regex(/^[A-Za-z0-9][A-Za-z0-9 ._/-]*$/, 'Use letters, digits, space, dot, dash, underscore or slash, e.g. BAL-03');
 
 export const retireInputSchema = z.object({
-  reason: z.string({ error: 'Give the reason for retiring it' }).trim().min(1, 'Give the reason for retiring it').max(500, 'Use at most 500 characters'),
+  reason: multilineText({ error: 'Give the reason for retiring it' }).trim().min(1, 'Give the reason for retiring it').max(500, 'Use at most 500 characters'),
 });
 export type RetireInput = z.infer<typeof retireInputSchema>;
 
@@ -269,10 +270,16 @@ const dateOk = (s: unknown): s is string => typeof s === 'string' && isIsoDate(s
 
 const purityFields = {
   /** Mass fraction, 0 < P ≤ 1 (e.g. "0.9995"). */
-  value: decimalCheck((d) => d.gt(0) && d.lte(1), 'Purity is a mass fraction greater than 0 and at most 1, e.g. 0.9995'),
-  expandedUncertainty: opt(positive('Expanded uncertainty must be greater than 0 (same unit as the purity, e.g. 0.0003)')),
-  k: opt(decimalCheck((d) => d.gt(0) && d.lte(10), 'Coverage factor k must be greater than 0 and at most 10, e.g. 2')),
-  standardUncertainty: opt(positive('Standard uncertainty must be greater than 0 (same unit as the purity)')),
+  value: decimalCheck((d) => d.gt(0) && d.lte(1), 'Purity is a mass fraction greater than 0 and at most 1, e.g. 0.9995').superRefine(
+    inRange(PLAUSIBLE.purity, 'the purity'),
+  ),
+  expandedUncertainty: opt(
+    positive('Expanded uncertainty must be greater than 0 (same unit as the purity, e.g. 0.0003)').superRefine(inRange(PLAUSIBLE.purityUncertainty, 'the expanded uncertainty')),
+  ),
+  k: opt(decimalCheck((d) => d.gt(0) && d.lte(10), 'Coverage factor k must be greater than 0 and at most 10, e.g. 2').superRefine(inRange(PLAUSIBLE.coverageFactor, 'the coverage factor k'))),
+  standardUncertainty: opt(
+    positive('Standard uncertainty must be greater than 0 (same unit as the purity)').superRefine(inRange(PLAUSIBLE.purityUncertainty, 'the standard uncertainty')),
+  ),
   basis: z.enum(PURITY_BASES, { error: `Basis is one of: ${PURITY_BASES.join(', ')}` }),
 };
 

@@ -4,6 +4,8 @@
  * Decimal strings throughout; volumes in mL.
  */
 import { z } from 'zod';
+import { PLAUSIBLE, checkConcentration, inRange } from './plausible.ts';
+import { lineText, multilineText } from './text.ts';
 import Decimal from 'decimal.js';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 import { CONCENTRATION_UNITS, isConcentrationUnit } from '../calc/units.ts';
@@ -26,15 +28,19 @@ const positiveDecimal = (what: string) =>
     .refine((s) => !DECIMAL_TEXT.test(s) || new Decimal(s).gt(0), `${what.charAt(0).toUpperCase() + what.slice(1)} must be greater than 0`);
 
 const id = (what: string) => z.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
-const reason = (what: string) => z.string({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
+const reason = (what: string) => multilineText({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
 
-export const concentrationSchema = z.object({
-  value: positiveDecimal('the target concentration'),
-  unit: z
-    .string({ error: 'Choose a unit for the target concentration' })
-    .trim()
-    .refine(isConcentrationUnit, `Use one of ${CONCENTRATION_UNITS.join(', ')} for the target concentration`),
-});
+export const concentrationSchema = z
+  .object({
+    value: positiveDecimal('the target concentration'),
+    unit: z
+      .string({ error: 'Choose a unit for the target concentration' })
+      .trim()
+      .refine(isConcentrationUnit, `Use one of ${CONCENTRATION_UNITS.join(', ')} for the target concentration`),
+  })
+  .superRefine((t, ctx) => checkConcentration(t, ctx));
+/** An aliquot volume in mL within its plausible range (shared/schemas/plausible.ts). */
+const aliquot = (what: string) => positiveDecimal(what).superRefine(inRange(PLAUSIBLE.aliquot, what));
 
 /** Body of POST /api/preparations/:key/dilutions (key = the parent). */
 export const dilutionInputSchema = z.object({
@@ -43,19 +49,19 @@ export const dilutionInputSchema = z.object({
   pipetteId: id('a pipette'),
   flaskId: id('a volumetric flask'),
   /** piston pipettes: the volume to set, mL (default: the nominal volume); bulb pipettes deliver their nominal */
-  aliquotMl: positiveDecimal('the aliquot volume').optional(),
+  aliquotMl: aliquot('the aliquot volume').optional(),
   solventId: id('the solvent').optional(),
-  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+  notes: multilineText().trim().max(2000, 'Use at most 2000 characters').optional(),
 });
 export type DilutionInput = z.output<typeof dilutionInputSchema>;
 
-const parentKey = z.string({ error: 'Give the parent preparation (identifier or id)' }).trim().min(1, 'Give the parent preparation (identifier or id)').max(40, 'Use at most 40 characters');
+const parentKey = lineText({ error: 'Give the parent preparation (identifier or id)' }).trim().min(1, 'Give the parent preparation (identifier or id)').max(40, 'Use at most 40 characters');
 
 /** Body of POST /api/series/proposal. */
 export const seriesProposalInputSchema = z.object({
   parentKey,
   levels: z.array(concentrationSchema, { error: 'Give the levels' }).min(1, 'Give at least one level').max(12, 'Use at most 12 levels'),
-  minAliquotMl: positiveDecimal('the minimum aliquot').optional(),
+  minAliquotMl: aliquot('the minimum aliquot').optional(),
 });
 export type SeriesProposalInput = z.output<typeof seriesProposalInputSchema>;
 
@@ -64,20 +70,20 @@ export const createSeriesInputSchema = z.object({
   parentKey,
   levels: z
     .array(
-      z.object({ target: concentrationSchema, pipetteId: id('a pipette'), flaskId: id('a volumetric flask'), aliquotMl: positiveDecimal('the aliquot volume').optional() }),
+      z.object({ target: concentrationSchema, pipetteId: id('a pipette'), flaskId: id('a volumetric flask'), aliquotMl: aliquot('the aliquot volume').optional() }),
       { error: 'Give the levels' },
     )
     .min(1, 'Give at least one level')
     .max(12, 'Use at most 12 levels'),
-  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+  notes: multilineText().trim().max(2000, 'Use at most 2000 characters').optional(),
 });
 export type CreateSeriesInput = z.output<typeof createSeriesInputSchema>;
 
 /** Body of POST /api/preparations/:key/aliquots: the aliquot actually delivered (pipette confirmed by scan). */
 export const aliquotInputSchema = z.object({
-  pipetteIdentifier: z.string({ error: 'Scan or type the pipette identifier' }).trim().min(1, 'Scan or type the pipette identifier').max(100, 'Use at most 100 characters'),
+  pipetteIdentifier: lineText({ error: 'Scan or type the pipette identifier' }).trim().min(1, 'Scan or type the pipette identifier').max(100, 'Use at most 100 characters'),
   /** piston pipettes: the volume set, as typed; bulb pipettes: omit (the nominal volume is delivered) */
-  volumeMl: positiveDecimal('the delivered volume').optional(),
+  volumeMl: aliquot('the delivered volume').optional(),
   supersedesId: id('the aliquot to correct').optional(),
   correctionReason: reason('the reason for the correction').optional(),
   /** a mix only: which component (the preparation_parents id, MixComponent.linkId) this aliquot is for */
@@ -88,12 +94,12 @@ export type AliquotInput = z.output<typeof aliquotInputSchema>;
 /** Body of POST /api/mixes: 2 to 10 verified parents (distinct analytes), each pipetted into one flask. */
 export const mixInputSchema = z.object({
   components: z
-    .array(z.object({ parentKey, pipetteId: id('a pipette'), aliquotMl: positiveDecimal('the aliquot volume').optional() }), { error: 'Give the components' })
+    .array(z.object({ parentKey, pipetteId: id('a pipette'), aliquotMl: aliquot('the aliquot volume').optional() }), { error: 'Give the components' })
     .min(2, 'A mix needs at least two components')
     .max(10, 'Use at most 10 components'),
   flaskId: id('a volumetric flask'),
   solventId: id('the solvent').optional(),
-  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+  notes: multilineText().trim().max(2000, 'Use at most 2000 characters').optional(),
 });
 export type MixInput = z.output<typeof mixInputSchema>;
 

@@ -11,6 +11,8 @@
  *   POST /api/preparations/:key/make-up   makeUpInputSchema            -> PreparationDetail (201)
  */
 import { z } from 'zod';
+import { PLAUSIBLE, checkConcentration, checkQuantity } from './plausible.ts';
+import { lineText, multilineText } from './text.ts';
 import Decimal from 'decimal.js';
 import { CONCENTRATION_UNITS, VOLUME_UNITS, isConcentrationUnit, isVolumeUnit } from '../calc/units.ts';
 import type { CalcPreparationResponse } from '../calc/preparation.ts';
@@ -62,7 +64,7 @@ const id = (what: string) =>
 
 const isoInstant = z.iso.datetime({ offset: true, error: 'Enter the time as an ISO date-time, e.g. 2026-11-20T09:30:00Z' });
 
-const reason = (what: string) => z.string({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
+const reason = (what: string) => multilineText({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
 
 // ---------------------------------------------------------------- inputs
 
@@ -94,20 +96,23 @@ export type ConditionsInput =
 
 const planInputObject = z.object({
   materialId: id('a reference material'),
-  analyteFormula: z.string({ error: 'Choose the analyte' }).trim().min(1, 'Choose the analyte').max(200, 'Use at most 200 characters'),
-  target: z.object({
-    value: positiveDecimal('the target concentration'),
-    unit: z
-      .string({ error: 'Choose a unit for the target concentration' })
-      .trim()
-      .refine(isConcentrationUnit, `Use one of ${CONCENTRATION_UNITS.join(', ')} for the target concentration`),
-  }),
+  analyteFormula: lineText({ error: 'Choose the analyte' }).trim().min(1, 'Choose the analyte').max(200, 'Use at most 200 characters'),
+  target: z
+    .object({
+      value: positiveDecimal('the target concentration'),
+      unit: z
+        .string({ error: 'Choose a unit for the target concentration' })
+        .trim()
+        .refine(isConcentrationUnit, `Use one of ${CONCENTRATION_UNITS.join(', ')} for the target concentration`),
+    })
+    .superRefine((t, ctx) => checkConcentration(t, ctx)),
   flaskId: id('a volumetric flask').optional(),
   volume: z
     .object({
       value: positiveDecimal('the volume'),
       unit: z.string({ error: 'Choose a unit for the volume' }).trim().refine(isVolumeUnit, `Use one of ${VOLUME_UNITS.join(', ')} for the volume`),
     })
+    .superRefine(checkQuantity('volume', PLAUSIBLE.volume, 'the volume'))
     .optional(),
   balanceId: id('a balance'),
   conditions: conditionsInputSchema,
@@ -128,7 +133,7 @@ export type PlanInput = Omit<z.output<typeof planInputSchema>, 'conditions'> & {
 
 /** Body of POST /api/preparations: the plan plus optional notes. */
 export const createPreparationInputSchema = planInputObject
-  .extend({ notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional() })
+  .extend({ notes: multilineText().trim().max(2000, 'Use at most 2000 characters').optional() })
   .superRefine(planRefine);
 export type CreatePreparationInput = PlanInput & { notes?: string };
 
@@ -152,9 +157,9 @@ export const weighingInputSchema = z
     balanceId: id('a balance').optional(),
     conditions: conditionsInputSchema,
     confirmOutOfWindow: z.boolean({ error: 'confirmOutOfWindow is true or false' }).optional(),
-    outOfWindowReason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
+    outOfWindowReason: multilineText().trim().max(500, 'Use at most 500 characters').optional(),
     supersedesId: id('the weighing to correct').optional(),
-    correctionReason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
+    correctionReason: multilineText().trim().max(500, 'Use at most 500 characters').optional(),
     /** required (server-checked, 400 fields["signature.password"]) when the record is prepared, returned or verified */
     signature: z.lazy(() => changeSignatureSchema).optional(),
   })
@@ -177,9 +182,9 @@ export type WeighingInput = Omit<z.output<typeof weighingInputSchema>, 'conditio
 
 /** Body of POST /api/preparations/:key/make-up. */
 export const makeUpInputSchema = z.object({
-  flaskIdentifier: z.string({ error: 'Scan or type the flask identifier' }).trim().min(1, 'Scan or type the flask identifier').max(100, 'Use at most 100 characters'),
+  flaskIdentifier: lineText({ error: 'Scan or type the flask identifier' }).trim().min(1, 'Scan or type the flask identifier').max(100, 'Use at most 100 characters'),
   solventId: id('the solvent'),
-  solventLot: z.string({ error: 'Enter the solvent lot' }).trim().min(1, 'Enter the solvent lot').max(100, 'Use at most 100 characters'),
+  solventLot: lineText({ error: 'Enter the solvent lot' }).trim().min(1, 'Enter the solvent lot').max(100, 'Use at most 100 characters'),
   /** 0–40 °C: the range of the linear expansion laws in shared/prep/volume.ts */
   solutionTemperatureC: rangedDecimal('the solution temperature', '0', '40', '°C'),
   applyTemperatureCorrection: z.boolean({ error: 'Say whether to correct the concentration to 20 °C' }),
@@ -211,8 +216,8 @@ const flag = z
 export const listPreparationsQuerySchema = z.object({
   mine: flag,
   today: flag,
-  status: z.string().trim().max(40).optional(),
-  search: z.string().trim().max(100, 'Use at most 100 characters').optional(),
+  status: lineText().trim().max(40).optional(),
+  search: lineText().trim().max(100, 'Use at most 100 characters').optional(),
   page: z.coerce.number({ error: 'page is a whole number ≥ 1' }).int('page is a whole number ≥ 1').min(1, 'page is a whole number ≥ 1').default(1),
   pageSize: z.coerce.number({ error: 'pageSize is 1 to 100' }).int('pageSize is 1 to 100').min(1, 'pageSize is 1 to 100').max(100, 'pageSize is 1 to 100').default(25),
 });
@@ -503,7 +508,7 @@ export const signatureInputSchema = z
   .object({
     meaning: z.enum(SIGNABLE_MEANINGS, { error: 'Choose prepared, verified, returned or discarded' }),
     password: z.string({ error: 'Enter your password to sign' }).min(1, 'Enter your password to sign').max(200, 'Use at most 200 characters'),
-    reason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
+    reason: multilineText().trim().max(500, 'Use at most 500 characters').optional(),
     checklist: z.record(z.string(), z.literal(true, { error: 'Tick the item (true)' })).optional(),
     acknowledgeResponsibility: z.literal(true, { error: 'Tick the statement to acknowledge it' }).optional(),
   })

@@ -14,6 +14,7 @@
  */
 import Decimal from 'decimal.js';
 import { z } from 'zod';
+import { lineText, multilineText } from './text.ts';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 
 // ---------------------------------------------------------------- constants
@@ -63,8 +64,7 @@ const count = (what: string, max: number) =>
     .min(1, `Use 1 to ${max} ${what}`)
     .max(max, `Use 1 to ${max} ${what}`);
 
-const name = z
-  .string({ error: 'Enter a template name' })
+const name = lineText({ error: 'Enter a template name' })
   .trim()
   .min(1, 'Enter a template name')
   .max(80, 'Use at most 80 characters');
@@ -160,7 +160,7 @@ export const labelPrintInputSchema = z.object({
   templateId: z.number({ error: 'Choose a label template' }).int('Choose a label template').positive('Choose a label template'),
   copies: count('copies', MAX_LABEL_COPIES),
   /** required (server-checked, 400 fields.reason) when labels of this preparation version and template were printed before */
-  reason: z.string({ error: 'Give the reason for the reprint' }).trim().max(500, 'Use at most 500 characters').optional(),
+  reason: multilineText({ error: 'Give the reason for the reprint' }).trim().max(500, 'Use at most 500 characters').optional(),
 });
 export type LabelPrintInput = z.output<typeof labelPrintInputSchema>;
 

@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { lineText } from './text.ts';
 import { decimalCheck, decimalInRange } from './decimal-text.ts';
 
 export const ROUNDING_RULES = ['half-even', 'half-up'] as const;
@@ -31,20 +32,20 @@ export const STABILITY_RULE_KINDS = ['stock', 'dilution', 'series_level', 'mix']
  * A rule applies when every condition it states holds; the most specific applicable rule wins (ties: first listed).
  */
 export const stabilityRuleSchema = z.object({
-  id: z.string({ error: 'Give the rule an id, e.g. SR-12' }).trim().min(1, 'Give the rule an id, e.g. SR-12').max(40, 'Use at most 40 characters'),
+  id: lineText({ error: 'Give the rule an id, e.g. SR-12' }).trim().min(1, 'Give the rule an id, e.g. SR-12').max(40, 'Use at most 40 characters'),
   appliesTo: z.object({
     kind: z.enum(STABILITY_RULE_KINDS, { error: `Kind is one of: ${STABILITY_RULE_KINDS.join(', ')}` }).optional(),
-    analyteFormula: z.string().trim().min(1, 'Enter the analyte formula, e.g. Pb').max(60, 'Use at most 60 characters').optional(),
+    analyteFormula: lineText().trim().min(1, 'Enter the analyte formula, e.g. Pb').max(60, 'Use at most 60 characters').optional(),
     /** applies only at or below this mass concentration, mg/L (decimal string) */
     maxConcentrationMgL: decimalCheck((d) => d.gt(0), 'Use a concentration greater than 0 mg/L').optional(),
   }),
   days: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 3650 days').max(3650, 'Use 0 to 3650 days'),
-  basis: z.string({ error: 'Say where the period comes from (study or SOP)' }).trim().min(1, 'Say where the period comes from (study or SOP)').max(200, 'Use at most 200 characters'),
+  basis: lineText({ error: 'Say where the period comes from (study or SOP)' }).trim().min(1, 'Say where the period comes from (study or SOP)').max(200, 'Use at most 200 characters'),
 });
 export type StabilityRule = z.infer<typeof stabilityRuleSchema>;
 
 export const labSettingsSchema = z.object({
-  labName: z.string({ error: 'Enter the laboratory name' }).trim().min(1, 'Enter the laboratory name').max(120, 'Use at most 120 characters'),
+  labName: lineText({ error: 'Enter the laboratory name' }).trim().min(1, 'Enter the laboratory name').max(120, 'Use at most 120 characters'),
   idPrefix: z
     .string({ error: 'Enter an ID prefix' })
     .trim()
@@ -56,7 +57,7 @@ export const labSettingsSchema = z.object({
   roundingRule: z.enum(ROUNDING_RULES, { error: `Choose one of: ${ROUNDING_RULES.join(', ')}` }),
   /** Stability period of a new preparation in days, and where it comes from (unset: DEFAULT_STABILITY_DAYS). */
   defaultStabilityDays: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 3650 days').max(3650, 'Use 0 to 3650 days').optional(),
-  defaultStabilityBasis: z.string({ error: 'Say where the stability period comes from' }).trim().min(1, 'Say where the stability period comes from').max(200, 'Use at most 200 characters').optional(),
+  defaultStabilityBasis: lineText({ error: 'Say where the stability period comes from' }).trim().min(1, 'Say where the stability period comes from').max(200, 'Use at most 200 characters').optional(),
   /** Stability rules by kind, analyte and concentration (unset or none applicable: the default period above). */
   stabilityRules: z.array(stabilityRuleSchema).max(100, 'Use at most 100 rules').optional(),
   /** Days before expiry that a standard appears in the daily expiry digest to its preparer (unset: DEFAULT_EXPIRY_NOTICE_DAYS). */

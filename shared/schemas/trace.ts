@@ -16,6 +16,7 @@
  * Graph node ids are "<type>:<key>", e.g. "preparation:12", "balance:3", "user:2".
  */
 import { z } from 'zod';
+import { multilineText } from './text.ts';
 import { isIsoDate } from '../prep/dates.ts';
 
 export const TRACE_SUBJECT_TYPES = ['preparation', 'material_lot', 'balance', 'volumetric_ware', 'solvent_lot'] as const;
@@ -94,7 +95,7 @@ export type TraceQuery = z.output<typeof traceQuerySchema>;
 /** POST /api/trace/:identifier/review-flags body. */
 export const reviewFlagsInputSchema = z
   .object({
-    reason: z.string({ error: 'Say why these records need review' }).trim().min(3, 'Say why these records need review').max(1000, 'Use at most 1000 characters'),
+    reason: multilineText({ error: 'Say why these records need review' }).trim().min(3, 'Say why these records need review').max(1000, 'Use at most 1000 characters'),
     ...rangeShape,
   })
   .refine(rangeOrder, { path: ['to'], message: 'The "to" date must not be before the "from" date' })

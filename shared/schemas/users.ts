@@ -1,4 +1,5 @@
 import { z } from 'zod';
+import { lineText } from './text.ts';
 import { roleSchema } from './roles.ts';
 
 export { ROLES, ROLE_LABELS, roleSchema, type Role } from './roles.ts';
@@ -11,8 +12,7 @@ export const passwordSchema = z
   .min(PASSWORD_MIN_LENGTH, `Use at least ${PASSWORD_MIN_LENGTH} characters`)
   .max(200, 'Use at most 200 characters');
 
-const fullNameSchema = z
-  .string({ error: 'Enter the full name' })
+const fullNameSchema = lineText({ error: 'Enter the full name' })
   .trim()
   .min(1, 'Enter the full name')
   .max(120, 'Use at most 120 characters');

@@ -73,8 +73,11 @@ describe('POST /api/materials/:id/certificates', () => {
     expect(files[0]).toMatch(/^[0-9a-f-]{36}\.pdf$/);
   });
 
-  it('when a PNG is uploaded (named .pdf even), then it is version 2, typed image/png by content', async () => {
-    const res = await upload(PNG_BYTES, 'scan.pdf');
+  it('when a PNG is uploaded, then it is version 2, typed image/png by content (named .pdf it is refused: name and content must agree)', async () => {
+    const misnamed = await upload(PNG_BYTES, 'scan.pdf');
+    expect(misnamed.status).toBe(415);
+    expect(misnamed.body.error.fields.file).toMatch(/rename the file to end in \.png/);
+    const res = await upload(PNG_BYTES, 'scan.png');
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body).toMatchObject({ version: 2, mimeType: 'image/png', note: null, sha256: sha(PNG_BYTES) });
     v2 = res.body;

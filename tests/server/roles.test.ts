@@ -1,12 +1,15 @@
 // Permission matrix (REQUIREMENTS AC-02, DEVELOPERS.md "Roles are checked on the server"):
 // every API route × { signed out, chemist, technician, qa, admin } → expected status.
 // The table is checked against the routes Express actually registered, so a new route without a row fails.
+// Then a matrix generated from that route list (every registered route × every role, ACCESS below) checks each
+// route's role rule in this file, including the routes whose full feature matrix lives in a feature test.
 import { readFileSync } from 'node:fs';
 import type { Express } from 'express';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, userIdByEmail, type TestApp } from './helpers/test-app.ts';
 import { validCalcRequest } from './helpers/calc-request.ts';
+import { fillPath, registeredRouteList, registeredRoutes } from './helpers/routes.ts';
 
 type Who = 'signedOut' | 'chemist' | 'technician' | 'qa' | 'admin';
 const WHO: Who[] = ['signedOut', 'chemist', 'technician', 'qa', 'admin'];
@@ -108,28 +111,61 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/mixes': 'mixes.test.ts',
 };
 
+type Allowed = Row['allowed'];
+
+/**
+ * Who may call each route of COVERED_ELSEWHERE (the rows above state it for theirs). The generated matrix
+ * below needs a rule for every registered route: a new route without one fails.
+ */
+const ACCESS_ELSEWHERE: Record<string, Allowed> = {
+  ...Object.fromEntries(
+    ['materials', 'balances', 'volumetric-ware', 'solvents'].flatMap((kind) => [
+      [`GET /api/${kind}/:id`, 'signedIn'],
+      [`POST /api/${kind}`, ['admin', 'chemist']],
+      [`PATCH /api/${kind}/:id`, ['admin', 'chemist']],
+      [`POST /api/${kind}/:id/retire`, ['admin', 'chemist']],
+    ]),
+  ),
+  'GET /api/materials/:id/certificates': 'signedIn',
+  'POST /api/materials/:id/certificates': ['admin', 'chemist'],
+  'GET /api/certificates/:id/file': 'signedIn',
+  'POST /api/preparations/preview': ['chemist', 'admin'],
+  'POST /api/preparations': ['chemist'],
+  'GET /api/preparations': 'signedIn',
+  'GET /api/preparations/:key': 'signedIn',
+  'POST /api/preparations/:key/weighings': ['chemist', 'technician'],
+  'POST /api/preparations/:key/make-up': ['chemist', 'technician'],
+  'POST /api/preparations/:key/signatures': ['chemist', 'qa'],
+  'GET /api/preparations/:key/prep-sheet.pdf': 'signedIn',
+  'GET /api/label-templates': 'signedIn',
+  'POST /api/label-templates': ['admin'],
+  'PATCH /api/label-templates/:id': ['admin'],
+  'GET /api/preparations/:key/labels-preview.pdf': 'signedIn',
+  'POST /api/preparations/:key/label-prints': ['chemist', 'technician'],
+  'GET /api/preparations/:key/label-prints': 'signedIn',
+  'GET /api/label-prints/:id/labels.pdf': 'signedIn',
+  'GET /api/outbox/:id': ['admin'],
+  'POST /api/trace/:identifier/review-flags': ['qa'],
+  'POST /api/preparations/:key/dilutions': ['chemist'],
+  'POST /api/preparations/:key/aliquots': ['chemist', 'technician'],
+  'POST /api/preparations/:key/gravimetric-dilutions': ['chemist'],
+  'POST /api/preparations/:key/gravimetric-readings': ['chemist', 'technician'],
+  'POST /api/series/proposal': ['chemist'],
+  'POST /api/series': ['chemist'],
+  'GET /api/series/:key': 'signedIn',
+  'GET /api/series/:key/sheet.pdf': 'signedIn',
+  'POST /api/preparations/:key/expiry-extensions': ['qa'],
+  'POST /api/mixes': ['chemist'],
+};
+
+/** The rule of every route: its row, else its ACCESS_ELSEWHERE entry. */
+const ACCESS: Record<string, Allowed> = { ...ACCESS_ELSEWHERE, ...Object.fromEntries(ROWS.map((r) => [`${r.method.toUpperCase()} ${r.path}`, r.allowed])) };
+
 function expected(row: Row, who: Who): number {
   if (row.allowed === 'public') return row.ok;
   if (who === 'signedOut') return 401;
   if (row.allowed === 'signedIn') return row.ok;
   return row.allowed.includes(who) ? row.ok : 403;
-}
-
-/** METHOD + path of every route registered in the app (walks nested routers; uses mount paths). */
-function registeredRoutes(app: Express): string[] {
-  const out: string[] = [];
-  const walk = (stack: any[], prefix: string) => {
-    for (const layer of stack) {
-      if (layer.route) {
-        for (const m of Object.keys(layer.route.methods)) out.push(`${m.toUpperCase()} ${prefix}${layer.route.path}`);
-      } else if (layer.handle?.stack) {
-        const mount = typeof layer.rawPath === 'string' && layer.rawPath !== '/' ? layer.rawPath : '';
-        walk(layer.handle.stack, prefix + mount);
-      }
-    }
-  };
-  walk((app as any).router.stack, '');
-  return out.filter((r) => r.includes(' /api')).sort();
 }
 
 beforeAll(async () => {
@@ -174,8 +210,62 @@ describe('permission matrix', () => {
     if (want === 401) expect(res.body.error.code).toBe('unauthenticated');
   });
 
+  it('when the matrix is generated from the router, then every registered route has a role rule and every rule a route', () => {
+    const routes = registeredRoutes(t.app);
+    expect(routes.filter((r) => !(r in ACCESS)), 'routes without a rule').toEqual([]);
+    expect(Object.keys(ACCESS).filter((r) => !routes.includes(r)), 'rules without a route').toEqual([]);
+  });
+
   it('then no route deletes users (accounts are deactivated, never deleted)', async () => {
     const res = await request(t.app).delete(`/api/users/${targetId}`).set('Cookie', cookies.admin!);
     expect(res.status).toBe(404);
   });
+});
+
+/**
+ * The generated matrix: every route Express registered × { signed out, chemist, technician, QA, admin }.
+ * Parameters name records that do not exist and the body is empty, so nothing is changed: a role outside the
+ * rule must get 401 (signed out) or 403 forbidden before anything else is looked at; a role inside it must get
+ * past the role check (anything but 401/403) and never a 5xx.
+ */
+describe('route × role matrix generated from the router', () => {
+  const NONE = { id: '999999', key: 'HWL-0000-9999', identifier: 'HWL-0000-9999', entity: 'preparation', entityId: '999999' };
+  const SKIP_FOR_ALLOWED = new Set(['POST /api/auth/login']); // public: its answers are covered by the rows above
+  let routes: ReturnType<typeof registeredRouteList> = [];
+  const results: { route: string; who: Who; status: number }[] = [];
+
+  beforeAll(() => {
+    routes = registeredRouteList(t.app);
+  });
+
+  it('when every route is called by every role, then the role rule holds in each cell', async () => {
+    expect(routes.length).toBeGreaterThan(60);
+    const failures: string[] = [];
+    for (const route of routes) {
+      const allowed = ACCESS[route.name];
+      if (allowed === undefined) {
+        failures.push(`${route.name}: no rule`);
+        continue;
+      }
+      for (const who of WHO) {
+        const isAllowed = allowed === 'public' || (who !== 'signedOut' && (allowed === 'signedIn' || allowed.includes(who)));
+        if (isAllowed && SKIP_FOR_ALLOWED.has(route.name)) continue;
+        // signing out ends the session: use a session of its own so the others stay signed in
+        const cookie = who === 'signedOut' ? undefined : route.name === 'POST /api/auth/logout' ? await sessionCookie(t.app, DEMO[who]) : cookies[who];
+        let req = request(t.app)[route.method](fillPath(route.path, NONE));
+        if (cookie) req = req.set('Cookie', cookie);
+        if (route.method !== 'get') req = req.send({});
+        const res = await req;
+        results.push({ route: route.name, who, status: res.status });
+        const cell = `${route.name} as ${who}: ${res.status} ${JSON.stringify(res.body).slice(0, 160)}`;
+        if (res.status >= 500) failures.push(cell);
+        else if (!isAllowed && who === 'signedOut' && (res.status !== 401 || res.body?.error?.code !== 'unauthenticated')) failures.push(`${cell} (want 401)`);
+        else if (!isAllowed && who !== 'signedOut' && (res.status !== 403 || res.body?.error?.code !== 'forbidden')) failures.push(`${cell} (want 403)`);
+        else if (isAllowed && (res.status === 401 || (res.status === 403 && res.body?.error?.code === 'forbidden'))) failures.push(`${cell} (want past the role check)`);
+      }
+    }
+    expect(failures).toEqual([]);
+    const denied = results.filter((r) => r.status === 401 || r.status === 403).length;
+    console.log(`[roles] generated matrix: ${routes.length} routes × ${WHO.length} roles, ${results.length} cells, ${denied} refused by role, 0 5xx`);
+  }, 120_000);
 });

@@ -49,6 +49,7 @@ export async function makeTestApp(
     NODE_ENV: 'test',
     TAREBOOK_DB: dbPath,
     SESSION_SECRET: 'test-secret-'.padEnd(48, 'x'),
+    LOGIN_DELAY_MS: '0', // the per-account sign-in delay is tested in login-guards.test.ts
     ...opts.env,
   });
   const sequelize = await openDatabase(dbPath);
