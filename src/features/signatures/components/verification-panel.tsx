@@ -35,6 +35,26 @@ export function VerificationPanel({ d }: { d: PreparationDetail }) {
 
   return (
     <div className="flex flex-col gap-5" data-testid="verification-panel">
+      {d.resultOutOfPlan ? (
+        <div role="alert" data-testid="verify-out-of-plan" className="rounded-lg border-2 border-l-8 border-caution-700 bg-caution-50 px-4 py-3">
+          <p className="text-lg font-bold text-caution-700">Review first: the result is outside what the plan could produce</p>
+          {d.resultOutOfPlan.messages.map((m) => (
+            <p key={m} className="mt-1">
+              {m}.
+            </p>
+          ))}
+          <p className="mt-2" data-testid="verify-out-of-plan-reason">
+            {d.resultOutOfPlan.reason ? (
+              <>
+                Reason stated by <strong>{d.resultOutOfPlan.statedBy}</strong> when signing as prepared: &ldquo;{d.resultOutOfPlan.reason}&rdquo;
+              </>
+            ) : (
+              'No reason was stated when it was signed as prepared.'
+            )}
+          </p>
+          <p className="mt-1 text-ink-soft">If the reason does not hold, return the record to the preparer.</p>
+        </div>
+      ) : null}
       <fieldset className="flex flex-col gap-2" disabled={!can.verify && !can.return}>
         <legend className="mb-2 text-lg font-bold">
           Checklist{' '}
