@@ -401,7 +401,7 @@ function SignatureBlock({ sigs, tz }: { sigs: Signature[]; tz: string }) {
         { title: 'Version / validity', width: '24%' },
       ]}
       rows={sigs.map((g) => [
-        g.meaningText + (g.reason ? ` — reason: ${g.reason}` : ''),
+        g.meaningText + (g.reason ? ` — reason: ${g.reason}` : '') + (g.outOfPlanReason ? ` — result outside the plan, reason: ${g.outOfPlanReason}` : ''),
         g.signer.fullName,
         labDateTime(g.signedAt, tz),
         g.valid ? `v${g.recordVersion}, valid` : `superseded: applied to v${g.recordVersion}`,

@@ -6,10 +6,12 @@
 // - "prepared" of a result more than twice the target needs outOfPlanReason (422 without); the reason is stored
 //   with the signature and audited; the verifier's checklist starts with it and "verified" needs it ticked.
 // Demo balances (seed/demo-data.ts): BAL-A1 220 g × 0.1 mg, BAL-SM1 82 g × 0.01 mg.
+import { PDFParse } from 'pdf-parse';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry, GravimetricReading, Weighing } from '../../server/db/models/index.ts';
 import { OUT_OF_PLAN_CHECK_KEY, VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
+import { PREVIEW_MARK } from '../../shared/schemas/printing.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 
 type Who = 'chemist' | 'chemist2' | 'technician';
@@ -160,6 +162,18 @@ describe('a result outside what the plan could produce is signed only with a rea
     expect(res.body.resultOutOfPlan).toMatchObject({ reason: 'Stock for a high-level spike, 2500 mg/L intended', statedBy: s.signer.fullName });
     const audit = await AuditEntry.findOne({ where: { action: 'sign', entityId: String(res.body.id) }, order: [['id', 'DESC']] });
     expect(JSON.stringify(audit!.changes)).toContain('Stock for a high-level spike');
+    // and the prep sheet's signature table carries it (whitespace ignored: table cells wrap)
+    const sheet = await send('chemist', 'get', `/api/preparations/${key}/prep-sheet.pdf?preview=1`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(sheet.status).toBe(200);
+    const parser = new PDFParse({ data: new Uint8Array(sheet.body as Buffer) });
+    const text = (await parser.getText()).text.replace(/\s+/g, '');
+    await parser.destroy();
+    expect(text).toContain('resultoutsidetheplan,reason:Stockforahigh-levelspike');
+    expect(text).toContain(PREVIEW_MARK.replace(/\s+/g, '')); // shown as a preview: marked, not recorded
   });
 
   it('then the verifier\'s checklist starts with the out-of-plan result and its reason, and "verified" needs that item ticked', async () => {
