@@ -12,7 +12,7 @@ import type { ReactNode } from 'react';
 import type { AuditEntryDto } from '../../shared/schemas/audit.ts';
 import type { BudgetEntry, PreparationDetail, Signature, Weighing } from '../../shared/schemas/preparations.ts';
 import type { DilutionSection, MixComponent, MixSection } from '../../shared/schemas/lineage.ts';
-import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
+import { PREVIEW_MARK, UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay, percent, shortDecimal } from './format.ts';
 import { gravimetricBudget, gravimetricCalculationLines, gravimetricInputRows, gravimetricOf, gravimetricReadingRows } from './gravimetric-sheet.ts';
@@ -31,6 +31,8 @@ export interface PrepSheetData {
   /** QR PNG of "<identifier>;v<version>" */
   qr: Buffer;
   qrText: string;
+  /** a preview on screen: marked, and not counted or recorded as a print */
+  preview?: boolean;
 }
 
 export const isVerified = (status: string) => status === 'verified';
@@ -399,7 +401,7 @@ function SignatureBlock({ sigs, tz }: { sigs: Signature[]; tz: string }) {
         { title: 'Version / validity', width: '24%' },
       ]}
       rows={sigs.map((g) => [
-        g.meaningText + (g.reason ? ` — reason: ${g.reason}` : ''),
+        g.meaningText + (g.reason ? ` — reason: ${g.reason}` : '') + (g.outOfPlanReason ? ` — result outside the plan, reason: ${g.outOfPlanReason}` : ''),
         g.signer.fullName,
         labDateTime(g.signedAt, tz),
         g.valid ? `v${g.recordVersion}, valid` : `superseded: applied to v${g.recordVersion}`,
@@ -431,11 +433,12 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
             <Text style={s.small}>Prep sheet — standard solution preparation</Text>
             <Text style={s.small}>{`Status: ${d.status}`}</Text>
           </View>
-          {verified ? <Text style={s.verifiedBanner}>VERIFIED</Text> : <Text style={s.banner}>{UNVERIFIED_MARK}</Text>}
+          {/* a preview carries its mark on the same line, so the layout of the page is the printed one */}
+          {verified ? <Text style={s.verifiedBanner}>{data.preview ? `VERIFIED · ${PREVIEW_MARK}` : 'VERIFIED'}</Text> : <Text style={s.banner}>{data.preview ? `${UNVERIFIED_MARK} · ${PREVIEW_MARK}` : UNVERIFIED_MARK}</Text>}
         </View>
 
         <View style={s.footer} fixed>
-          <Text>{`${title} · printed ${labDateTime(data.generatedAt, tz)} by ${data.generatedBy}`}</Text>
+          <Text>{`${title} · ${data.preview ? 'preview shown' : 'printed'} ${labDateTime(data.generatedAt, tz)} ${data.preview ? 'to' : 'by'} ${data.generatedBy}`}</Text>
           <Text render={({ pageNumber, totalPages }) => `Page ${pageNumber} of ${totalPages}`} />
         </View>
 

@@ -3,6 +3,7 @@ import {
   createLabelTemplateInputSchema,
   labelPreviewQuerySchema,
   labelPrintInputSchema,
+  prepSheetQuerySchema,
   updateLabelTemplateInputSchema,
 } from '../../shared/schemas/printing.ts';
 import { requireAuth, requireRole } from '../middleware/session.ts';
@@ -20,7 +21,7 @@ function sendPdf(res: Response, { pdf, filename }: { pdf: Buffer; filename: stri
 }
 
 /**
- * Prep sheet (any signed-in role; each one served is audited as a print), label templates (list: any
+ * Prep sheet (any signed-in role; each one served is audited as a print, except a preview, ?preview=1), label templates (list: any
  * signed-in role; create/edit: admin), label prints (chemist and technician; QA and admin cannot print),
  * print history and stored-print PDFs (any signed-in role), and previews (any signed-in role, not recorded).
  */
@@ -29,7 +30,8 @@ export function printingRouter(): Router {
   const actor = (u: NonNullable<Express.Request['user']>) => ({ id: u.id, fullName: u.fullName });
 
   router.get('/preparations/:key/prep-sheet.pdf', requireAuth, async (req, res) => {
-    sendPdf(res, await printing.prepSheetPdf(keyOf(req.params.key), actor(req.user!)));
+    const q = prepSheetQuerySchema.parse(req.query);
+    sendPdf(res, await printing.prepSheetPdf(keyOf(req.params.key), actor(req.user!), { preview: q.preview === '1' }));
   });
 
   router.get('/label-templates', requireAuth, async (_req, res) => {

@@ -14,7 +14,7 @@
  * write transaction (preparations.dilution_result).
  */
 import { CalcError, D } from '../../shared/calc/index.ts';
-import { checkReadingDigits, evaluateGates, formatPreparationId, type Gate } from '../../shared/prep/index.ts';
+import { checkReadingDigits, checkReadingRange, evaluateGates, formatPreparationId, type Gate } from '../../shared/prep/index.ts';
 import type { GravimetricPlan, GravimetricPlanInput, GravimetricReadingsInput, GravimetricResult, SourcedValue } from '../../shared/schemas/gravimetric.ts';
 import type { Balance as BalanceDto } from '../../shared/schemas/inventory.ts';
 import type { PreparationDetailWithLineage } from '../../shared/schemas/lineage.ts';
@@ -251,8 +251,15 @@ export async function recordGravimetricReadings(key: string, input: GravimetricR
   const blocked = usableBalanceGates(balance, today);
   if (blocked.length) throw new GateBlockedError(blocked);
 
-  // digits as the balance shows them (checked, then stored verbatim)
   const fields: Record<string, string> = {};
+  // both are net readings: greater than zero and within the balance's capacity, or refused (422 at the field)
+  const what = { aliquotReading: 'The aliquot reading', finalReading: 'The final solution reading' } as const;
+  for (const f of ['aliquotReading', 'finalReading'] as const) {
+    const range = checkReadingRange(input[f], input.unit, balance.capacityG, { net: true, balanceIdentifier: balance.identifier, what: what[f] });
+    if (!range.ok) fields[f] = range.message;
+  }
+  if (Object.keys(fields).length) throw new AppError('reading_impossible', 422, Object.values(fields)[0]!, { fields });
+  // digits as the balance shows them (checked, then stored verbatim)
   for (const f of ['aliquotReading', 'finalReading'] as const) {
     const check = checkReadingDigits(input[f], input.unit, balance.readabilityMg, balance.identifier);
     if (!check.ok) fields[f] = check.message;
@@ -261,8 +268,6 @@ export async function recordGravimetricReadings(key: string, input: GravimetricR
   const aliquotMg = input.unit === 'g' ? new D(input.aliquotReading).mul(1000).toFixed() : input.aliquotReading;
   const minWeight = aliquotGates(aliquotMg, balance, [], prep.volumeValue, today, prep.snapshotMaterial).filter((g) => g.code === 'below_min_weight');
   if (minWeight.length) throw new GateBlockedError(minWeight);
-  const finalG = input.unit === 'g' ? new D(input.finalReading) : new D(input.finalReading).div(1000);
-  if (finalG.gt(balance.capacityG)) throw AppError.validation(`${balance.identifier} weighs up to ${balance.capacityG} g`, { finalReading: `${balance.identifier} weighs up to ${balance.capacityG} g; check the reading and its unit` });
 
   const conditions: ConditionsUsed = input.room
     ? { source: 'measured', temperatureC: input.room.temperatureC, pressureHPa: input.room.pressureHPa, relativeHumidityPct: input.room.humidityPct, measuredAt: now.toISOString() }

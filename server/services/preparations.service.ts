@@ -7,7 +7,7 @@
  */
 import { Op, QueryTypes, literal, type WhereOptions } from 'sequelize';
 import { CalcError, convertVolume, D } from '../../shared/calc/index.ts';
-import { checkReadingDigits, computeExpiry, dayNumber, evaluateGates, formatPreparationId, isInWindow, netFromDifference, parsePreparationId, type GateBalance } from '../../shared/prep/index.ts';
+import { checkReadingDigits, checkReadingRange, computeExpiry, dayNumber, evaluateGates, formatPreparationId, isInWindow, netFromDifference, parsePreparationId, type GateBalance } from '../../shared/prep/index.ts';
 import { evaluateFlaskGates, evaluateMaterialDensityGate, type PlanFlask } from '../../shared/prep/plan-gates.ts';
 import type { Balance as BalanceDto, ReferenceMaterial as MaterialDto, VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type {
@@ -572,9 +572,17 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
   const blocked = usableBalanceGates(balance, today);
   if (blocked.length) throw new GateBlockedError(blocked);
 
-  // digits as the balance shows them (checked, then stored verbatim)
   const fields: Record<string, string> = {};
   const typed: Array<['reading' | 'before' | 'after', string | undefined]> = [['reading', input.reading], ['before', input.before], ['after', input.after]];
+  // a reading the balance cannot show (beyond its capacity, or a direct reading of zero or below) is refused (422)
+  const labels = { reading: 'A direct reading', before: 'The reading before transfer', after: 'The reading after transfer' } as const;
+  for (const [field, value] of typed) {
+    if (value === undefined) continue;
+    const range = checkReadingRange(value, input.unit, balance.capacityG, { net: field === 'reading', balanceIdentifier: balance.identifier, what: labels[field] });
+    if (!range.ok) fields[field] = range.message;
+  }
+  if (Object.keys(fields).length) throw new AppError('reading_impossible', 422, Object.values(fields)[0]!, { fields });
+  // digits as the balance shows them (checked, then stored verbatim)
   for (const [field, value] of typed) {
     if (value === undefined) continue;
     const check = checkReadingDigits(value, input.unit, balance.readabilityMg, balance.identifier);

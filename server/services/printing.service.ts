@@ -7,8 +7,10 @@
  *   entity "preparation", changes.kind = prep_sheet | labels) in a write transaction.
  * - Label prints are append-only rows: the template and the label content are stored with the print, so
  *   GET /api/label-prints/:id/labels.pdf renders the same PDF from the stored row every time.
- * - A second print of the same record version with the same template is a reprint: it needs a reason,
- *   carries "REPRINT n" and is counted (LB-07). Expired and discarded records cannot be labelled (409).
+ * - The first label print of a record is the original; every later one (any version, any template) is a
+ *   reprint: it needs a reason, carries "REPRINT n" and is counted (LB-07). Expired and discarded records
+ *   cannot be labelled (409).
+ * - A prep sheet shown as a preview (?preview=1, the Print page's frame) is marked and not recorded.
  */
 import { Op } from 'sequelize';
 import type { AuditEntryDto } from '../../shared/schemas/audit.ts';
@@ -50,8 +52,12 @@ async function recordLevelTrail(d: PreparationDetail): Promise<AuditEntryDto[]> 
   return parts.flat().sort((a, b) => a.id - b.id);
 }
 
-/** GET /api/preparations/:key/prep-sheet.pdf: renders the current version and records the print. */
-export async function prepSheetPdf(key: string, actor: Actor): Promise<{ pdf: Buffer; filename: string }> {
+/**
+ * GET /api/preparations/:key/prep-sheet.pdf: renders the current version and records the print (the user asked
+ * to print it). With `preview` (?preview=1, the sheet shown on the Print page) it is marked as a preview and
+ * nothing is recorded: viewing a page is not printing.
+ */
+export async function prepSheetPdf(key: string, actor: Actor, opts: { preview?: boolean } = {}): Promise<{ pdf: Buffer; filename: string }> {
   const [detail, settings] = await Promise.all([getPreparation(key), getSettings()]);
   const trail = await recordLevelTrail(detail);
   const qrText = recordCode(detail.identifier, detail.version);
@@ -66,7 +72,9 @@ export async function prepSheetPdf(key: string, actor: Actor): Promise<{ pdf: Bu
     generatedBy: actor.fullName,
     qr: await qrPng(qrText),
     qrText,
+    preview: opts.preview === true,
   });
+  if (opts.preview) return { pdf, filename: `${detail.identifier}-v${detail.version}-prep-sheet-preview.pdf` };
   await writeTransaction((transaction) =>
     recordAudit(
       {
@@ -194,14 +202,12 @@ export async function createLabelPrint(key: string, input: LabelPrintInput, acto
   const reason = input.reason && input.reason.length > 0 ? input.reason : null;
 
   const created = await writeTransaction(async (transaction) => {
-    const earlier = await LabelPrint.count({
-      where: { preparationId: detail.id, preparationVersion: detail.version, templateId: template.id },
-      transaction,
-    });
+    // a record's labels are printed once; every later print, whatever the template or version, is a reprint
+    const earlier = await LabelPrint.count({ where: { preparationId: detail.id }, transaction });
     const number = earlier + 1;
     if (number > 1 && (!reason || reason.length < 3)) {
       throw AppError.validation(
-        `Labels of ${detail.identifier} v${detail.version} were already printed with "${template.name}" (${earlier} time${earlier === 1 ? '' : 's'}); a reprint needs a reason`,
+        `Labels of ${detail.identifier} were already printed (${earlier} time${earlier === 1 ? '' : 's'}); a reprint needs a reason`,
         { reason: 'Give the reason for the reprint (at least 3 characters), and destroy the labels it replaces' },
       );
     }

@@ -41,12 +41,16 @@
 import { createHash } from 'node:crypto';
 import type { Transaction } from 'sequelize';
 import { parsePreparationId } from '../../shared/prep/index.ts';
+import { outOfPlan, type PlanValue } from '../../shared/prep/plan-plausibility.ts';
 import {
+  OUT_OF_PLAN_CHECK_KEY,
   SIGNATURE_MEANING_TEXT,
   SIGNATURE_RESPONSIBILITY_STATEMENT,
   VERIFICATION_CHECKLIST,
   type CanSign,
   type ChangeSignatureInput,
+  type ChecklistItem,
+  type ResultOutOfPlan,
   type PreparationDetail,
   type Signature as SignatureDto,
   type SignatureInput,
@@ -75,7 +79,7 @@ import { recordAudit } from './audit.service.ts';
 import { nextStatus, invalidTransition, transition, dataEntryMode, type StatusEvent } from './preparation-status.ts';
 import { verifyPassword } from './passwords.ts';
 import { activeAliquot, dilutionResultOf, isDilutionKind, lineageRow } from './lineage-view.ts';
-import { mixCompleteness, mixEntriesOf, mixHashFields, type MixEntries } from './mix-view.ts';
+import { mixCompleteness, mixEntriesOf, mixHashFields, mixPlanOf, type MixEntries } from './mix-view.ts';
 import { getSettings } from './settings.service.ts';
 import { activeReadings, gravimetricResultOf, isGravimetricPlan, readingsOf } from './gravimetric-calc.ts';
 
@@ -371,6 +375,50 @@ function completeness(st: State): string | null {
   return null;
 }
 
+// ------------------------------------------------------------------ results the plan could not produce
+
+type Shown = PlanValue & { display?: string };
+
+/** Messages for every current result outside what the plan could produce ([] when none, or no result yet). */
+export function outOfPlanMessages(st: Pick<State, 'p' | 'dilution'>): string[] {
+  const p = st.p;
+  const target: PlanValue = { value: p.targetValue, unit: p.targetUnit };
+  const out: Array<string | null> = [];
+  if (st.dilution?.mix) {
+    const plan = mixPlanOf(p);
+    for (const r of (st.dilution.result as Array<Shown & { analyteFormula: string }> | null) ?? []) {
+      const planned = plan?.components.find((c) => c.analyteFormula === r.analyteFormula)?.planned;
+      if (planned) out.push(outOfPlan(r, planned, `The ${r.analyteFormula} result`));
+    }
+  } else if (st.dilution?.gravimetricReadings) {
+    const r = st.dilution.result as { massFraction?: Shown } | null;
+    if (r?.massFraction) out.push(outOfPlan(r.massFraction, target));
+  } else if (st.dilution) {
+    const r = st.dilution.result as Shown | null;
+    if (r) out.push(outOfPlan(r, target));
+  } else if (p.result?.concentration) {
+    out.push(outOfPlan(p.result.concentration, target));
+  }
+  return out.filter((m): m is string => m !== null);
+}
+
+/** The out-of-plan section of the detail: the messages, and the reason stated with the valid "prepared" signature. */
+function resultOutOfPlanOf(st: State): ResultOutOfPlan | undefined {
+  const messages = outOfPlanMessages(st);
+  if (!messages.length) return undefined;
+  const prepared = [...st.sigs].reverse().find((s) => s.meaning === 'prepared' && isValid(s, st) && s.outOfPlanReason);
+  return prepared ? { messages, reason: prepared.outOfPlanReason!, statedBy: prepared.signerName, statedAt: prepared.signedAt } : { messages };
+}
+
+/** The verifier's checklist of this record: a result outside the plan comes first, with the reason stated for it. */
+export function checklistOf(st: State): ChecklistItem[] {
+  const items = VERIFICATION_CHECKLIST.map((c) => ({ ...c }));
+  const o = resultOutOfPlanOf(st);
+  if (!o) return items;
+  const why = o.reason ? `Reason stated by ${o.statedBy} when signing as prepared: "${o.reason}".` : 'No reason was stated when it was signed as prepared.';
+  return [{ key: OUT_OF_PLAN_CHECK_KEY, label: `Result outside the plan reviewed: ${o.messages.join('; ')}. ${why} The result and its reason are justified.` }, ...items];
+}
+
 function refusal(st: State, meaning: SignatureInput['meaning'], user: { id: number; role: Role }): { status: number; code: string; message: string } | null {
   const id = st.p.identifier;
   if (!ROLES_FOR[meaning].includes(user.role)) return { status: 403, code: 'forbidden', message: ROLE_TEXT[meaning] };
@@ -404,11 +452,12 @@ function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash'>): SignatureDto
     valid: isValid(s, st),
   };
   if (s.reason) dto.reason = s.reason;
+  if (s.outOfPlanReason) dto.outOfPlanReason = s.outOfPlanReason;
   if (s.checklist) dto.checklist = s.checklist;
   return dto;
 }
 
-type SignatureView = Pick<PreparationDetail, 'signatures' | 'verificationChecklist' | 'canSign'> & Partial<Pick<PreparationDetail, 'amendedFromVersion' | 'reviewFlag'>>;
+type SignatureView = Pick<PreparationDetail, 'signatures' | 'verificationChecklist' | 'canSign'> & Partial<Pick<PreparationDetail, 'amendedFromVersion' | 'reviewFlag' | 'resultOutOfPlan'>>;
 
 /** The signature fields of PreparationDetail, with canSign for the viewing user (none: all false). */
 export async function signatureView(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], viewerId?: number): Promise<SignatureView> {
@@ -430,9 +479,11 @@ export async function signatureView(p: Preparation, weighings: Weighing[], makeU
   if (viewer) canSign.acknowledgementRequired = !ack;
   const view: SignatureView = {
     signatures: sigs.map((s) => signatureDto(s, st)),
-    verificationChecklist: VERIFICATION_CHECKLIST.map((c) => ({ ...c })),
+    verificationChecklist: checklistOf(st),
     canSign,
   };
+  const outOfPlanView = resultOutOfPlanOf(st);
+  if (outOfPlanView) view.resultOutOfPlan = outOfPlanView;
   const lastAmend = [...sigs].reverse().find((s) => s.meaning === 'amended');
   if (lastAmend?.amendsVersion) view.amendedFromVersion = lastAmend.amendsVersion;
   if (flag) view.reviewFlag = { reason: flag.reason, flaggedAt: flag.flaggedAt };
@@ -532,8 +583,14 @@ export async function sign(key: string, input: SignatureInput, signer: Signer, o
     if (refused.code === 'self_verification') await auditRefusal(signer, p, input.meaning, refused.message);
     throw new AppError(refused.code, refused.status, refused.message);
   }
+  const outOfPlanNow = input.meaning === 'prepared' ? outOfPlanMessages(st) : [];
+  if (outOfPlanNow.length && (input.outOfPlanReason === undefined || input.outOfPlanReason.length < 3)) {
+    const msg = `${outOfPlanNow.join('; ')}. State why the result stands (at least 3 characters) to sign it as prepared, or correct the entries`;
+    throw new AppError('result_out_of_plan', 422, msg, { fields: { outOfPlanReason: msg } });
+  }
+  const checklist = checklistOf(st);
   if (input.meaning === 'verified') {
-    const missing = VERIFICATION_CHECKLIST.filter((c) => input.checklist?.[c.key] !== true);
+    const missing = checklist.filter((c) => input.checklist?.[c.key] !== true);
     if (missing.length) {
       throw AppError.validation(`Tick every checklist item before verifying (${missing.length} not ticked)`, Object.fromEntries(missing.map((c) => [`checklist.${c.key}`, `Tick: ${c.label}`])));
     }
@@ -568,8 +625,9 @@ export async function sign(key: string, input: SignatureInput, signer: Signer, o
         recordVersion: p.version,
         recordHash: hash,
         reason: input.reason ? input.reason : null,
-        checklist: input.meaning === 'verified' ? Object.fromEntries(VERIFICATION_CHECKLIST.map((c) => [c.key, true as const])) : null,
+        checklist: input.meaning === 'verified' ? Object.fromEntries(checklist.map((c) => [c.key, true as const])) : null,
         amendsVersion: null,
+        outOfPlanReason: outOfPlanNow.length ? input.outOfPlanReason! : null,
       },
       { transaction },
     );
@@ -589,6 +647,7 @@ export async function sign(key: string, input: SignatureInput, signer: Signer, o
           { field: 'signature.recordVersion', oldValue: null, newValue: p.version },
           { field: 'signature.recordHash', oldValue: null, newValue: hash },
           { field: 'signature.id', oldValue: null, newValue: s.id },
+          ...(s.outOfPlanReason ? [{ field: 'signature.outOfPlanReason', oldValue: null, newValue: s.outOfPlanReason }, { field: 'signature.resultOutOfPlan', oldValue: null, newValue: outOfPlanNow.join('; ') }] : []),
         ],
         reason: input.reason ?? null,
       },

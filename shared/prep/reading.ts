@@ -158,3 +158,43 @@ export function netFromTare(gross: string, tare: string): string {
     `The gross reading (${gross}) is not greater than the tare (${tare}); net {net}: check the readings`,
   );
 }
+
+export type ReadingRangeCheck = { ok: true } | { ok: false; code: 'above_capacity' | 'not_positive'; message: string };
+
+/**
+ * Whether a typed reading can have come from the balance at all: no display shows more than the balance's
+ * capacity (Max), in either direction, and a net reading (a direct weighing into a tared vessel, the net
+ * readings of a dilution by mass) is the mass itself, so it is greater than zero. Readings by difference
+ * may be negative (a vessel tared on the pan, then the material taken out), never beyond the capacity.
+ * Text that is not a plain decimal passes here; checkReadingDigits refuses it.
+ */
+export function checkReadingRange(
+  reading: string,
+  unit: MassUnit,
+  capacityG: string,
+  opts: { net: boolean; balanceIdentifier?: string; what?: string },
+): ReadingRangeCheck {
+  const t = typeof reading === 'string' ? reading.trim() : '';
+  if (!PLAIN_DECIMAL_RE.test(t)) return { ok: true };
+  const r = new D(t);
+  const who = opts.balanceIdentifier ?? 'The balance';
+  const what = opts.what ?? 'The reading';
+  if (opts.net && r.lte(0)) {
+    return { ok: false, code: 'not_positive', message: `${what} is the mass itself and cannot be ${r.isZero() ? 'zero' : 'below zero'} (${t} ${unit}); weigh again` };
+  }
+  let capacity: Dec;
+  try {
+    capacity = toDec(capacityG, 'capacityG');
+  } catch {
+    return { ok: true }; // a balance without a usable capacity: nothing to compare with
+  }
+  const grams = unit === 'g' ? r.abs() : r.abs().div(1000);
+  if (capacity.gt(0) && grams.gt(capacity)) {
+    return {
+      ok: false,
+      code: 'above_capacity',
+      message: `${who} weighs up to ${capacity.toString()} g: ${t} ${unit} cannot be one of its readings; check the reading and its unit`,
+    };
+  }
+  return { ok: true };
+}

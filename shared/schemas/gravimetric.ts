@@ -30,14 +30,13 @@ const positive = (what: string) => decimal(what, (d) => d.gt(0), `${what.charAt(
 const density = (what: string) => decimal(what, (d) => d.gte('0.5') && d.lte('2.5'), `Enter ${what} in g/mL, between 0.5 and 2.5 (water is about 0.998)`);
 const id = (what: string) => z.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
 const reason = (what: string) => multilineText({ error: `Give ${what}` }).trim().min(3, `Give ${what} (at least 3 characters)`).max(500, 'Use at most 500 characters');
-/** a balance reading exactly as shown: plain digits and a point, never an exponent */
+/** a balance reading exactly as shown: plain digits and a point (a minus sign if the display shows one), never an exponent */
 const reading = (what: string) =>
   z
     .string({ error: `Enter ${what} as the balance shows it, e.g. 1.0234` })
     .trim()
     .min(1, `Enter ${what}`)
-    .regex(/^\d+(\.\d+)?$/, { error: `Enter ${what} as the balance shows it, digits and a point, e.g. 1.0234`, abort: true })
-    .refine((s) => /^\d+(\.\d+)?$/.test(s) && new Decimal(s).gt(0), `${what.charAt(0).toUpperCase() + what.slice(1)} must be greater than 0`);
+    .regex(/^-?\d+(\.\d+)?$/, { error: `Enter ${what} as the balance shows it, digits and a point, e.g. 1.0234` }); // sign and size: checkReadingRange on the server (422)
 
 /** Body of POST /api/preparations/:key/gravimetric-dilutions (key = a verified, in-date parent). */
 export const gravimetricPlanInputSchema = z.object({
@@ -75,7 +74,7 @@ export const gravimetricReadingsInputSchema = z
     correctionReason: reason('the reason for the correction').optional(),
   })
   .superRefine((v, ctx) => {
-    if (DECIMAL_TEXT.test(v.aliquotReading) && DECIMAL_TEXT.test(v.finalReading) && new Decimal(v.aliquotReading).gte(v.finalReading)) {
+    if (DECIMAL_TEXT.test(v.aliquotReading) && DECIMAL_TEXT.test(v.finalReading) && new Decimal(v.aliquotReading).gt(0) && new Decimal(v.aliquotReading).gte(v.finalReading)) {
       ctx.addIssue({ code: 'custom', path: ['finalReading'], message: 'The final solution (aliquot + diluent) must weigh more than the aliquot' });
     }
     if (v.supersedesId !== undefined && !v.correctionReason) ctx.addIssue({ code: 'custom', path: ['correctionReason'], message: 'Give the reason for the correction' });

@@ -51,13 +51,19 @@ const rangedDecimal = (what: string, min: string, max: string, unit: string) =>
 
 /** A balance reading as typed: plain decimal text, no sign, no exponent ("0.1600", "160.07"). */
 export const READING_TEXT = /^(\d+(\.\d*)?|\.\d+)$/;
+/** A reading as a balance display shows it: digits and a point, with a minus sign when the display shows one. */
+export const SIGNED_READING_TEXT = /^-?(\d+(\.\d*)?|\.\d+)$/;
+/**
+ * The sign and size are checked on the server against the balance (checkReadingRange: 422 at the field), so
+ * a reading the balance cannot show (above its capacity, or a direct reading of zero or below) is refused
+ * with the balance named.
+ */
 const readingString = (what: string) =>
   z
     .string({ error: `Enter ${what} exactly as the balance shows it, e.g. 160.07` })
     .trim()
     .min(1, `Enter ${what}`)
-    .regex(READING_TEXT, { error: `Enter ${what} exactly as the balance shows it, e.g. 160.07 (digits and a point only)`, abort: true })
-    .refine((s) => !READING_TEXT.test(s) || new Decimal(s).gt(0), `${what.charAt(0).toUpperCase() + what.slice(1)} must be greater than 0`);
+    .regex(SIGNED_READING_TEXT, { error: `Enter ${what} exactly as the balance shows it, e.g. 160.07 (digits and a point only)` });
 
 const id = (what: string) =>
   z.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
@@ -430,7 +436,23 @@ export interface PreparationDetail extends PreparationSummary, ExpirySection {
   verificationChecklist: ChecklistItem[];
   /** computed for the requesting user; `reasons[action]` says why an action is not allowed */
   canSign: CanSign;
+  /** set when the current result is outside what the plan could produce (shared/prep/plan-plausibility.ts) */
+  resultOutOfPlan?: ResultOutOfPlan;
 }
+
+/**
+ * A result outside what the plan could produce: "prepared" needs `outOfPlanReason` (422 fields.outOfPlanReason
+ * without it), and the verifier's checklist starts with OUT_OF_PLAN_CHECK_KEY, showing the reason.
+ */
+export interface ResultOutOfPlan {
+  messages: string[];
+  /** the reason stated with the valid "prepared" signature of this version, when there is one */
+  reason?: string;
+  statedBy?: string;
+  statedAt?: string;
+}
+
+export const OUT_OF_PLAN_CHECK_KEY = 'result_out_of_plan';
 
 // ---------------------------------------------------------------- signatures
 
@@ -482,6 +504,8 @@ export interface Signature {
   /** SHA-256 hex of the canonical JSON of the record version signed (server/services/signatures.service.ts) */
   recordHash: string;
   reason?: string;
+  /** "prepared" of a result outside the plan: the reason the signer stated */
+  outOfPlanReason?: string;
   checklist?: Record<string, true>;
   /** false once the record has changed since; shown as "superseded: applied to v {recordVersion}" */
   valid: boolean;
@@ -511,6 +535,8 @@ export const signatureInputSchema = z
     reason: multilineText().trim().max(500, 'Use at most 500 characters').optional(),
     checklist: z.record(z.string(), z.literal(true, { error: 'Tick the item (true)' })).optional(),
     acknowledgeResponsibility: z.literal(true, { error: 'Tick the statement to acknowledge it' }).optional(),
+    /** "prepared" only: why a result outside what the plan could produce stands (required then, server-checked: 422) */
+    outOfPlanReason: z.string().trim().max(500, 'Use at most 500 characters').optional(),
   })
   .superRefine((s, ctx) => {
     if ((s.meaning === 'returned' || s.meaning === 'discarded') && (s.reason === undefined || s.reason.length < 3)) {

@@ -176,6 +176,11 @@ export const labelPreviewQuerySchema = z.object({
 });
 export type LabelPreviewQuery = z.output<typeof labelPreviewQuerySchema>;
 
+/** Query of GET /api/preparations/:key/prep-sheet.pdf: preview=1 shows the sheet without recording a print. */
+export const prepSheetQuerySchema = z.object({
+  preview: z.enum(['0', '1'], { error: 'preview is 1 (show, not recorded) or 0 (print, recorded)' }).optional(),
+});
+
 export interface LabelPrint {
   id: number;
   preparationId: number;

@@ -153,8 +153,9 @@ beforeAll(async () => {
   };
   pdfs.fullUnverified = await print(UNVERIFIED_KEY, 'Bench vial 38×25 full');
   pdfs.fullReprint = await print(UNVERIFIED_KEY, 'Bench vial 38×25 full', { reason: 'first roll jammed in the printer' });
-  pdfs.smallVerified = await print(VERIFIED_KEY, 'Autosampler vial 25×12 small');
   pdfs.sheetVerified = await print(VERIFIED_KEY, 'A4 sheet 3×8 full', { copies: 30 });
+  // a record's second label print is a reprint whatever the template: it needs a reason
+  pdfs.smallVerified = await print(VERIFIED_KEY, 'Autosampler vial 25×12 small', { reason: 'vials for the autosampler rack' });
   pdfs.preview = await getPdf(`/api/preparations/${VERIFIED_KEY}/labels-preview.pdf?templateId=${templateId['Bench vial 38×25 full']}&copies=2`, 'qa');
   for (const [k, v] of Object.entries(pdfs)) texts[k] = await pdfText(v);
 }, 240_000);

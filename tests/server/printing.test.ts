@@ -157,8 +157,9 @@ describe('label prints', () => {
 
   it('when each role prints labels, then chemist and technician get 201; QA and admin 403; signed out 401', async () => {
     const expected: Record<Who, number> = { signedOut: 401, qa: 403, admin: 403, technician: 201, chemist: 201 };
+    const own = await completePreparation(); // the record below gets its original print in the next test
     for (const who of ROLES) {
-      const res = await send(who, 'post', `/api/preparations/${key}/label-prints`, { templateId: tpl['Autosampler vial 25×12 small'], copies: 4, reason: `role check ${who}` });
+      const res = await send(who, 'post', `/api/preparations/${own}/label-prints`, { templateId: tpl['Autosampler vial 25×12 small'], copies: 4, reason: `role check ${who}` });
       expect(res.status, `${who}: ${JSON.stringify(res.body)}`).toBe(expected[who]);
       if (res.status !== 201) expectErrorBody(res.body, who === 'signedOut' ? 'unauthenticated' : 'forbidden');
     }
@@ -184,8 +185,15 @@ describe('label prints', () => {
     expect((await auditPrints(prepId)).length).toBe(before);
   });
 
-  it('when reprinted with a reason, then numbers 2 and 3 are reprints, audited with the reason, and the history counts them', async () => {
-    const r2 = await send('chemist', 'post', `/api/preparations/${key}/label-prints`, { templateId: tpl['Bench vial 38×25 full'], copies: 1, reason: 'label smudged by solvent' });
+  it('when the labels are printed again with another template, then it is a reprint all the same: 400 fields.reason without one', async () => {
+    const res = await send('technician', 'post', `/api/preparations/${key}/label-prints`, { templateId: tpl['Autosampler vial 25×12 small'], copies: 1 });
+    expect(res.status, JSON.stringify(res.body)).toBe(400);
+    expect(res.body.error.fields.reason).toMatch(/reason/);
+    expect(res.body.error.message).toMatch(/already printed \(1 time\)/);
+  });
+
+  it('when reprinted with a reason, then numbers 2 and 3 are reprints whatever the template, audited with the reason, and the history counts them', async () => {
+    const r2 = await send('chemist', 'post', `/api/preparations/${key}/label-prints`, { templateId: tpl['Autosampler vial 25×12 small'], copies: 1, reason: 'label smudged by solvent' });
     expect(r2.status, JSON.stringify(r2.body)).toBe(201);
     expect(r2.body.print).toMatchObject({ number: 2, isReprint: true, reason: 'label smudged by solvent' });
     const r3 = await send('technician', 'post', `/api/preparations/${key}/label-prints`, { templateId: tpl['Bench vial 38×25 full'], copies: 3, reason: 'vials moved to a new rack' });
@@ -193,10 +201,8 @@ describe('label prints', () => {
 
     const hist = await send('qa', 'get', `/api/preparations/${key}/label-prints`);
     expect(hist.status).toBe(200);
-    const bench = hist.body.items.filter((p: any) => p.templateId === tpl['Bench vial 38×25 full']);
-    expect(bench.map((p: any) => p.number)).toEqual([3, 2, 1]); // newest first
-    // small template: chemist's and technician's role-check prints (numbers 1 and 2); bench: 1, 2, 3
-    expect(hist.body.counts).toEqual({ originals: 2, reprints: 3, labels: 4 + 4 + 2 + 1 + 3 });
+    expect(hist.body.items.map((p: any) => [p.number, p.isReprint])).toEqual([[3, true], [2, true], [1, false]]); // newest first
+    expect(hist.body.counts).toEqual({ originals: 1, reprints: 2, labels: 2 + 1 + 3 });
 
     const audit = await auditPrints(prepId);
     const last = audit.at(-1)!;
@@ -317,5 +323,24 @@ describe('GET /api/preparations/:key/prep-sheet.pdf', () => {
     expect(audit).toHaveLength(4);
     expect(JSON.parse(audit[0]!.changes)).toEqual(expect.arrayContaining([{ field: 'kind', oldValue: null, newValue: 'prep_sheet' }]));
     expect((await send('chemist', 'get', '/api/preparations/HWL-2026-9999/prep-sheet.pdf')).status).toBe(404);
+  }, 120_000);
+
+  it('when the sheet is shown as a preview (?preview=1, the Print page), then 200 PDF for every signed-in role and nothing is recorded; a bad preview value is 400', async () => {
+    const key = await completePreparation();
+    const id = (await send('chemist', 'get', `/api/preparations/${key}`)).body.id;
+    for (const who of ROLES) {
+      const res = await send(who, 'get', `/api/preparations/${key}/prep-sheet.pdf?preview=1`);
+      expect(res.status, who).toBe(who === 'signedOut' ? 401 : 200);
+      if (res.status === 200) expect(res.headers['content-disposition']).toMatch(new RegExp(`inline; filename="${key}-v\\d+-prep-sheet-preview.pdf"`));
+    }
+    expect(await auditPrints(id)).toHaveLength(0);
+    const bad = await send('chemist', 'get', `/api/preparations/${key}/prep-sheet.pdf?preview=yes`);
+    expect(bad.status).toBe(400);
+    expectErrorBody(bad.body);
+    expect(Object.keys(bad.body.error.fields)).toEqual(['preview']);
+    expect(await auditPrints(id)).toHaveLength(0);
+    // asking to print records exactly one entry per print
+    expect((await send('technician', 'get', `/api/preparations/${key}/prep-sheet.pdf?preview=0`)).status).toBe(200);
+    expect(await auditPrints(id)).toHaveLength(1);
   }, 120_000);
 });

@@ -19,6 +19,8 @@ export class Signature extends Model<InferAttributes<Signature>, InferCreationAt
   declare reason: string | null;
   declare checklist: Record<string, true> | null;
   declare amendsVersion: number | null;
+  /** "prepared" of a result outside the plan: the signer's stated reason (migration 0013) */
+  declare outOfPlanReason: CreationOptional<string | null>;
 }
 
 export class RecordVersion extends Model<InferAttributes<RecordVersion>, InferCreationAttributes<RecordVersion>> {
@@ -70,6 +72,7 @@ export function initSignatures(sequelize: Sequelize) {
         },
       },
       amendsVersion: { type: DataTypes.INTEGER, allowNull: true },
+      outOfPlanReason: optionalText(),
     },
     { sequelize, tableName: 'signatures', modelName: 'Signature', underscored: true, timestamps: false },
   );

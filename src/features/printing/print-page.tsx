@@ -73,7 +73,13 @@ export function PrintPage() {
 
       <Panel title="Prep sheet" id="print-sheet">
         <p className="mb-3 text-ink-soft">The complete record as a PDF: plan, weighings, make-up, result, signatures and hazards.</p>
-        <PdfFrame src={printingUrls.prepSheet(d.identifier)} title={`Prep sheet ${d.identifier}`} testId="prep-sheet" />
+        {/* the frame shows a preview (not recorded); the print link fetches the sheet that is recorded as printed */}
+        <PdfFrame
+          src={printingUrls.prepSheetPreview(d.identifier)}
+          title={`Prep sheet ${d.identifier}`}
+          testId="prep-sheet"
+          open={{ href: printingUrls.prepSheet(d.identifier), label: 'Print the prep sheet', note: 'Opens the sheet to print in a new tab; each one is recorded as a print. The preview above is not.' }}
+        />
       </Panel>
 
       <Panel title="Labels" id="print-labels">

@@ -1,6 +1,8 @@
+import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router';
+import { preparationQueries } from '../preparations/api/preparation-queries.ts';
 import { DetailPage } from '../preparations/detail-page.tsx';
-import { VerificationPanel } from './components/verification-panel.tsx';
+import { OutOfPlanNotice, VerificationPanel } from './components/verification-panel.tsx';
 
 /**
  * /preparations/:identifier/verify: the verification workspace (REQUIREMENTS W3, RV-01…RV-03). The whole
@@ -9,6 +11,8 @@ import { VerificationPanel } from './components/verification-panel.tsx';
  */
 export function VerifyPage() {
   const { identifier = '' } = useParams();
+  const detail = useQuery(preparationQueries.detail(identifier)); // the same query the record below uses
+  const outOfPlan = detail.data?.status === 'prepared' ? detail.data.resultOutOfPlan : undefined;
   return (
     <div className="flex flex-col gap-4">
       <div className="flex flex-wrap items-center justify-between gap-3 rounded-xl border-2 border-slate-700 bg-slate-100 px-5 py-3" data-testid="verify-intro">
@@ -24,6 +28,7 @@ export function VerifyPage() {
           </Link>
         </div>
       </div>
+      {outOfPlan ? <OutOfPlanNotice o={outOfPlan} testId="verify-out-of-plan-top" /> : null}
       <DetailPage verification={(d) => <VerificationPanel d={d} />} />
     </div>
   );

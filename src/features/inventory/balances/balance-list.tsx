@@ -23,6 +23,7 @@ export const balanceColumns = [
       </span>
     ),
   }),
+  col.accessor('capacityG', { header: 'Capacity (Max)', enableSorting: false, meta: { numeric: true }, cell: (c) => <Num value={c.getValue()} unit="g" /> }),
   col.accessor('readabilityMg', { header: 'Readability d', enableSorting: false, meta: { numeric: true }, cell: (c) => <Num value={c.getValue()} unit="mg" /> }),
   col.accessor('minWeightMg', { header: 'Minimum weight', enableSorting: false, meta: { numeric: true }, cell: (c) => <Num value={c.getValue()} unit="mg" /> }),
   col.accessor('calibrationDueOn', { header: 'Calibration due', cell: (c) => <CalibrationDueCell dueOn={c.getValue()} /> }),

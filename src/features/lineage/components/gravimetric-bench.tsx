@@ -12,6 +12,7 @@ import { Banner, CautionBox, Panel } from '../../../components/ui/feedback.tsx';
 import { api, type ApiError } from '../../../lib/api-client.ts';
 import { gravimetricReadingsInputSchema, type GravimetricDilutionSection, type GravimetricReadingDto, type GravimetricReadingsInput } from '../../../../shared/schemas/gravimetric.ts';
 import type { LineageSection } from '../../../../shared/schemas/lineage.ts';
+import { checkReadingRange } from '../../../../shared/prep/reading.ts';
 import { preparationKeys } from '../../preparations/api/preparation-keys.ts';
 import { formatLabTime, percent } from '../../preparations/format.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
@@ -146,8 +147,15 @@ export function GravimetricBench({ d, timeZone }: { d: PreparationDetail; timeZo
     const r = gravimetricReadingsInputSchema.safeParse(input);
     const errs: Record<string, string> = {};
     if (!r.success) for (const i of r.error.issues) errs[i.path.join('.')] ??= i.message;
+    // both are net readings: above zero and within the balance's capacity, as the server checks (422)
+    const what = { aliquotReading: 'The aliquot reading', finalReading: 'The final solution reading' } as const;
+    for (const f of ['aliquotReading', 'finalReading'] as const) {
+      if (errs[f] || !balance?.capacityG) continue;
+      const range = checkReadingRange(input[f], unit, balance.capacityG, { net: true, balanceIdentifier: balance.identifier, what: what[f] });
+      if (!range.ok) errs[f] = range.message;
+    }
     setLocal(errs);
-    if (!r.success) return;
+    if (!r.success || Object.keys(errs).length) return;
     save.mutate(r.data);
   };
 

@@ -8,7 +8,8 @@ import { ChoiceField, SelectField, TextField } from '../../../components/ui/fiel
 import { ApiError } from '../../../lib/api-client.ts';
 import { applyApiFieldErrors } from '../../../lib/form.ts';
 import type { RoomConditions } from '../../../../shared/schemas/settings.ts';
-import { READING_TEXT } from '../../../../shared/schemas/preparations.ts';
+import { SIGNED_READING_TEXT } from '../../../../shared/schemas/preparations.ts';
+import { checkReadingRange } from '../../../../shared/prep/reading.ts';
 import { useRecordWeighing } from '../api/preparation-mutations.ts';
 import { balanceDecimals } from '../format.ts';
 import { conditionsFormSchema, toConditionsInput } from '../plan-form-schema.ts';
@@ -19,7 +20,7 @@ import { useChangeSignature } from '../../signatures/components/change-signature
 const readingText = z
   .string()
   .trim()
-  .refine((s) => s === '' || READING_TEXT.test(s), 'Type the reading exactly as the balance shows it: digits and a point only, e.g. 160.07');
+  .refine((s) => s === '' || SIGNED_READING_TEXT.test(s), 'Type the reading exactly as the balance shows it: digits and a point only, e.g. 160.07');
 
 const weighingFormSchema = z
   .object({
@@ -140,6 +141,18 @@ export function WeighingForm({
       setError('correctionReason', { type: 'manual', message: 'Give the reason for the correction (at least 3 characters)' });
       return;
     }
+    // a reading this balance cannot show is refused here, at the field, as the server would (422)
+    let impossible = false;
+    const fieldsNow = v.mode === 'direct' ? ([['reading', v.reading, 'A direct reading']] as const) : ([['before', v.before, 'The reading before transfer'], ['after', v.after, 'The reading after transfer']] as const);
+    for (const [name, value, what] of fieldsNow) {
+      if (!balance?.capacityG) break;
+      const range = checkReadingRange(value, v.unit, balance.capacityG, { net: name === 'reading', balanceIdentifier: balance.identifier, what });
+      if (!range.ok) {
+        setError(name, { type: 'manual', message: range.message });
+        impossible = true;
+      }
+    }
+    if (impossible) return;
     if (!change.validate()) return;
     const input: WeighingInput = {
       mode: v.mode,

@@ -50,8 +50,8 @@ function TemplatePicker({ templates, value, onChange }: { templates: LabelTempla
 }
 
 /**
- * Template, copies, live preview (not a print record) and "Print labels". A second print of the same
- * template for the same record version is a reprint: it needs a reason and the user's confirmation that
+ * Template, copies, live preview (not a print record) and "Print labels". Every print of a record's labels
+ * after the first (any template, any version) is a reprint: it needs a reason and the user's confirmation that
  * the earlier labels are destroyed (REQUIREMENTS LB-07); the server refuses a reprint without a reason.
  */
 export function LabelSection({
@@ -83,9 +83,9 @@ export function LabelSection({
 
   const template = active.find((t) => t.id === templateId) ?? null;
   const preview = useDebouncedValue(template ? { id: template.id, copies } : null, 500);
-  const isReprint =
-    !!template &&
-    (serverSaysReprint === template.id || (history?.items ?? []).some((p) => p.templateId === template.id && p.preparationVersion === detail.version));
+  // the record's first label print is the original; every later one, whatever the template, is a reprint
+  const earlierPrints = history?.items.length ?? 0;
+  const isReprint = !!template && (serverSaysReprint !== null || earlierPrints > 0);
   const blocked = NO_PRINT_STATUSES.includes(detail.status);
   const typedCopiesError = copiesError(copiesText);
 
@@ -162,8 +162,8 @@ export function LabelSection({
           {isReprint ? (
             <div className="flex flex-col gap-3" data-testid="reprint-fields">
               <p className="font-semibold text-caution-700">
-                Labels from this template were already printed for version {detail.version} of this record. This print is a reprint: the labels
-                will say &ldquo;REPRINT&rdquo;.
+                Labels of this record were already printed{earlierPrints > 0 ? ` (${earlierPrints} ${earlierPrints === 1 ? 'time' : 'times'})` : ''}. This
+                print is reprint No. {Math.max(earlierPrints, 1)}, whatever the template: the labels will say &ldquo;REPRINT&rdquo;.
               </p>
               <div>
                 <label htmlFor="reprint-reason" className="mb-1 block text-sm font-semibold">

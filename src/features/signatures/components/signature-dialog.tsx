@@ -32,7 +32,7 @@ const REASON_LABEL: Partial<Record<SignableMeaning, string>> = {
 };
 
 /** The server's refusal, placed where the signer will look for it. */
-type Refusal = { banner?: { title: string; text: string; code: string }; password?: string; reason?: string; acknowledge?: string };
+type Refusal = { banner?: { title: string; text: string; code: string }; password?: string; reason?: string; outOfPlanReason?: string; acknowledge?: string };
 
 function refusalFrom(e: unknown): Refusal {
   if (!(e instanceof ApiError)) return { banner: { title: 'Not signed', text: e instanceof Error ? e.message : 'Something went wrong.', code: 'unknown' } };
@@ -40,9 +40,11 @@ function refusalFrom(e: unknown): Refusal {
   const f = e.fields;
   if (e.code === 'signature_password' || f.password) out.password = f.password ?? e.message;
   if (f.reason) out.reason = f.reason;
+  if (f.outOfPlanReason) out.outOfPlanReason = f.outOfPlanReason;
   // The server answers with the statement itself under this key: show it, and ask for the tick.
   if (f.acknowledgeResponsibility) out.acknowledge = 'Tick the statement to acknowledge it before your first signature';
-  const placed = Object.keys(f).filter((k) => k === 'password' || k === 'reason' || k === 'acknowledgeResponsibility').length;
+  const PLACED = ['password', 'reason', 'outOfPlanReason', 'acknowledgeResponsibility'];
+  const placed = Object.keys(f).filter((k) => PLACED.includes(k)).length;
   if (e.code === 'self_verification') {
     out.banner = { title: 'You cannot verify this record', text: e.message, code: e.code };
   } else if (e.code === 'invalid_transition') {
@@ -51,7 +53,7 @@ function refusalFrom(e: unknown): Refusal {
     out.banner = { title: 'Not allowed', text: e.message, code: e.code };
   } else if (!out.password && (placed === 0 || placed < Object.keys(f).length)) {
     const extra = Object.entries(f)
-      .filter(([k]) => k !== 'password' && k !== 'reason' && k !== 'acknowledgeResponsibility')
+      .filter(([k]) => !PLACED.includes(k))
       .map(([, v]) => v);
     out.banner = { title: 'Not signed', text: [e.message, ...extra].filter((x, i, a) => a.indexOf(x) === i).join(' '), code: e.code };
   }
@@ -75,7 +77,7 @@ export function SignatureDialog({
 }: {
   open: boolean;
   meaning: SignableMeaning;
-  detail: Pick<PreparationDetail, 'identifier' | 'version' | 'materialName' | 'analyteFormula' | 'canSign'>;
+  detail: Pick<PreparationDetail, 'identifier' | 'version' | 'materialName' | 'analyteFormula' | 'canSign'> & Partial<Pick<PreparationDetail, 'resultOutOfPlan'>>;
   /** for "verified": the ticked checklist, sent as `{ key: true }` */
   checklist?: Record<string, true>;
   /** true when the server has said this is the user's first signature (default: detail.canSign.acknowledgementRequired) */
@@ -90,10 +92,13 @@ export function SignatureDialog({
   const uid = useId();
   const [password, setPassword] = useState('');
   const [reason, setReason] = useState('');
+  const [outOfPlanReason, setOutOfPlanReason] = useState('');
   const [ack, setAck] = useState(false);
   const [showAck, setShowAck] = useState(needsAcknowledgement);
   const [refusal, setRefusal] = useState<Refusal>({});
   const needsReason = meaning === 'returned' || meaning === 'discarded';
+  /** a result outside what the plan could produce is signed as prepared only with a stated reason (server: 422) */
+  const outOfPlan = meaning === 'prepared' ? (detail.resultOutOfPlan ?? (refusal.outOfPlanReason ? { messages: [] } : undefined)) : undefined;
 
   useEffect(() => {
     const d = ref.current;
@@ -101,6 +106,7 @@ export function SignatureDialog({
     if (open && !d.open) {
       setPassword('');
       setReason('');
+      setOutOfPlanReason('');
       setAck(false);
       setShowAck(needsAcknowledgement);
       setRefusal({});
@@ -123,8 +129,9 @@ export function SignatureDialog({
     const local: Refusal = {};
     if (password === '') local.password = 'Enter your password to sign';
     if (needsReason && reason.trim().length < 3) local.reason = `Give the reason the record is ${meaning} (at least 3 characters)`;
+    if (outOfPlan && outOfPlanReason.trim().length < 3) local.outOfPlanReason = 'State why this result stands (at least 3 characters), or correct the entries first';
     if (showAck && !ack) local.acknowledge = 'Tick the statement to acknowledge it before your first signature';
-    if (local.password || local.reason || local.acknowledge) {
+    if (local.password || local.reason || local.outOfPlanReason || local.acknowledge) {
       setRefusal(local);
       return;
     }
@@ -133,6 +140,7 @@ export function SignatureDialog({
       meaning,
       password,
       ...(needsReason ? { reason: reason.trim() } : {}),
+      ...(outOfPlan ? { outOfPlanReason: outOfPlanReason.trim() } : {}),
       ...(meaning === 'verified' && checklist ? { checklist } : {}),
       ...(showAck && ack ? { acknowledgeResponsibility: true as const } : {}),
     };
@@ -153,6 +161,7 @@ export function SignatureDialog({
   const pwId = `${uid}-password`;
   const reasonId = `${uid}-reason`;
   const ackId = `${uid}-ack`;
+  const outOfPlanId = `${uid}-out-of-plan`;
 
   return (
     <dialog
@@ -218,6 +227,38 @@ export function SignatureDialog({
             {refusal.reason ? (
               <p id={`${reasonId}-error`} role="alert" className="mt-1 text-sm font-semibold text-bad-700">
                 {refusal.reason}
+              </p>
+            ) : null}
+          </div>
+        ) : null}
+
+        {outOfPlan ? (
+          <div className="rounded-lg border-2 border-l-8 border-caution-700 bg-caution-50 px-4 py-3" data-testid="signature-out-of-plan">
+            <p className="font-bold text-caution-700">The result is outside what the plan could produce</p>
+            {outOfPlan.messages.map((m) => (
+              <p key={m} className="mt-1">
+                {m}.
+              </p>
+            ))}
+            <p className="mt-1">Check the readings and their units first. If the result stands, say why: the verifier sees your reason first.</p>
+            <label htmlFor={outOfPlanId} className="mb-1 mt-3 block text-sm font-semibold">
+              Why the result stands (required)
+            </label>
+            <textarea
+              id={outOfPlanId}
+              name="outOfPlanReason"
+              data-testid="signature-out-of-plan-reason"
+              rows={3}
+              maxLength={500}
+              value={outOfPlanReason}
+              onChange={(e) => setOutOfPlanReason(e.target.value)}
+              aria-invalid={refusal.outOfPlanReason ? true : undefined}
+              aria-describedby={refusal.outOfPlanReason ? `${outOfPlanId}-error` : undefined}
+              className="field-input"
+            />
+            {refusal.outOfPlanReason ? (
+              <p id={`${outOfPlanId}-error`} role="alert" data-testid="signature-out-of-plan-error" className="mt-1 text-sm font-semibold text-bad-700">
+                {refusal.outOfPlanReason}
               </p>
             ) : null}
           </div>

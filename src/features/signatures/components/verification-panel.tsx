@@ -2,7 +2,7 @@ import { useState } from 'react';
 import { useNavigate } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
 import { Banner } from '../../../components/ui/feedback.tsx';
-import type { PreparationDetail, SignableMeaning } from '../../../../shared/schemas/preparations.ts';
+import type { PreparationDetail, ResultOutOfPlan, SignableMeaning } from '../../../../shared/schemas/preparations.ts';
 import { DisabledWithReason } from './sign-actions.tsx';
 import { SignatureDialog } from './signature-dialog.tsx';
 import { StatusBadge } from './status-badge.tsx';
@@ -35,6 +35,7 @@ export function VerificationPanel({ d }: { d: PreparationDetail }) {
 
   return (
     <div className="flex flex-col gap-5" data-testid="verification-panel">
+      {d.resultOutOfPlan ? <OutOfPlanNotice o={d.resultOutOfPlan} testId="verify-out-of-plan" /> : null}
       <fieldset className="flex flex-col gap-2" disabled={!can.verify && !can.return}>
         <legend className="mb-2 text-lg font-bold">
           Checklist{' '}
@@ -93,6 +94,30 @@ export function VerificationPanel({ d }: { d: PreparationDetail }) {
           }}
         />
       ) : null}
+    </div>
+  );
+}
+
+/** A result outside what the plan could produce, with the reason stated when it was signed as prepared: shown first. */
+export function OutOfPlanNotice({ o, testId }: { o: ResultOutOfPlan; testId: string }) {
+  return (
+    <div role="alert" data-testid={testId} className="rounded-lg border-2 border-l-8 border-caution-700 bg-caution-50 px-4 py-3">
+      <p className="text-lg font-bold text-caution-700">Review first: the result is outside what the plan could produce</p>
+      {o.messages.map((m) => (
+        <p key={m} className="mt-1">
+          {m}.
+        </p>
+      ))}
+      <p className="mt-2" data-testid={`${testId}-reason`}>
+        {o.reason ? (
+          <>
+            Reason stated by <strong>{o.statedBy}</strong> when signing as prepared: &ldquo;{o.reason}&rdquo;
+          </>
+        ) : (
+          'No reason was stated when it was signed as prepared.'
+        )}
+      </p>
+      <p className="mt-1 text-ink-soft">If the reason does not hold, return the record to the preparer.</p>
     </div>
   );
 }
