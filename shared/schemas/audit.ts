@@ -66,6 +66,8 @@ export const auditEntrySchema = z.object({
   reason: z.string().nullable(),
   prevHash: z.string(),
   hash: z.string(),
+  /** The session the entry was written in; null for older entries, anonymous events and scheduled jobs. */
+  sessionId: z.string().nullable().optional(),
 });
 export type AuditEntryDto = z.infer<typeof auditEntrySchema>;
 
