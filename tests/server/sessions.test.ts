@@ -67,6 +67,21 @@ describe('the cookie carries only a session id, checked against the sessions tab
     expect((await me('tarebook_session=not-a-sealed-value')).status).toBe(401);
   });
 
+  it('when a signed-in request is checked, then it costs one query (the session and its user by primary key)', async () => {
+    const p = await person();
+    await me(p.cookie); // warms the idle-timeout cache (read at most once a minute)
+    const seen: string[] = [];
+    const hook = (_options: unknown, query: { sql?: string }) => void seen.push(String(query?.sql ?? ''));
+    t.sequelize.addHook('afterQuery', 'count', hook as never);
+    try {
+      expect((await me(p.cookie)).status).toBe(200);
+    } finally {
+      t.sequelize.removeHook('afterQuery', 'count');
+    }
+    expect(seen).toHaveLength(1);
+    expect(seen[0]).toMatch(/FROM sessions s JOIN users u ON u\.id = s\.user_id WHERE s\.id = /);
+  });
+
   it('when a request comes within a minute of the last one, then last_seen_at is not rewritten; after a minute it is', async () => {
     const p = await person();
     const [row] = await openSessions(p.id);
