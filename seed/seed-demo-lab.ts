@@ -33,7 +33,8 @@ export async function seedDemoLab(
   const now = opts.now ?? new Date();
   const passwordHash = opts.passwordHash ?? (await hashPassword(DEMO_PASSWORD));
   await sequelize.transaction(async (transaction) => {
-    await User.bulkCreate(demoUsers.map((u) => ({ ...u, passwordHash })), { transaction });
+    // Demo passwords are not temporary (mustChangePassword false): the README gives them to everyone on purpose.
+    await User.bulkCreate(demoUsers.map((u) => ({ ...u, passwordHash, mustChangePassword: false })), { transaction });
     const shifted = <T extends object>(rows: T[]) => rows.map((r) => shiftDemoRecord(r, now));
     await ReferenceMaterial.bulkCreate(shifted(demoMaterials), { transaction });
     await Balance.bulkCreate(shifted(demoBalances), { transaction });

@@ -1,12 +1,16 @@
 import { Router } from 'express';
 import { rateLimit } from 'express-rate-limit';
-import { loginInputSchema } from '../../shared/schemas/auth.ts';
+import type { Request } from 'express';
+import { changePasswordInputSchema, loginInputSchema } from '../../shared/schemas/auth.ts';
 import type { Config } from '../config.ts';
 import { toApiError } from '../errors/to-api-error.ts';
 import { AppError } from '../errors/app-error.ts';
 import { LoginThrottle } from '../middleware/login-throttle.ts';
-import { requireAuth } from '../middleware/session.ts';
-import { signIn, signOut } from '../services/auth.service.ts';
+import { requireSession } from '../middleware/session.ts';
+import { changeOwnPassword, signIn, signOut } from '../services/auth.service.ts';
+import { signOutEverywhere } from '../services/sessions.service.ts';
+
+const clientOf = (req: Request) => ({ ip: req.ip ?? null, userAgent: req.get('user-agent') ?? null });
 
 export function authRouter(config: Config): Router {
   const router = Router();
@@ -38,28 +42,48 @@ export function authRouter(config: Config): Router {
         fields: { email: `Wait ${seconds} s before the next attempt for this account` },
       });
     }
-    let user;
+    let signedIn;
     try {
-      user = await signIn(input, { lockoutThreshold: config.lockoutThreshold });
+      signedIn = await signIn(input, { lockoutThreshold: config.lockoutThreshold, client: clientOf(req) });
     } catch (err) {
       if (err instanceof AppError && (err.status === 401 || err.status === 423)) throttle.failed(input.email);
       throw err;
     }
     throttle.succeeded(input.email);
-    req.session.userId = user.id;
-    req.session.signedInAt = new Date().toISOString();
+    const { user, sessionId } = signedIn;
+    req.session.sessionId = sessionId;
     await req.session.save();
     res.json({ user });
   });
 
+  // Ends this session (the row, not only the cookie): a copy of the cookie is refused afterwards.
   router.post('/auth/logout', async (req, res) => {
-    await signOut(req.session.userId);
+    await signOut(req.session.sessionId);
     req.session.destroy();
     res.status(204).end();
   });
 
-  router.get('/auth/me', requireAuth, (req, res) => {
+  // Ends every session of the signed-in account, this one included.
+  router.post('/auth/logout-everywhere', requireSession, async (req, res) => {
+    const ended = await signOutEverywhere(req.user!, req.sessionId ?? null);
+    req.session.destroy();
+    res.json({ sessionsEnded: ended });
+  });
+
+  router.get('/auth/me', requireSession, (req, res) => {
     res.json({ user: req.user });
+  });
+
+  // The person's own password (current + new). Also the way out of a password set by an administrator.
+  router.post('/auth/password', requireSession, async (req, res) => {
+    const input = changePasswordInputSchema.parse(req.body);
+    const { user, sessionId } = await changeOwnPassword(req.user!, req.sessionId!, input, {
+      lockoutThreshold: config.lockoutThreshold,
+      client: clientOf(req),
+    });
+    req.session.sessionId = sessionId;
+    await req.session.save();
+    res.json({ user });
   });
 
   return router;

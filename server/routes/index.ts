@@ -16,6 +16,7 @@ import { traceRouter } from './trace.routes.ts';
 import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
+import { sessionsRouter } from './sessions.routes.ts';
 import { expiryRouter } from './expiry.routes.ts';
 
 /** Everything under /api. Each route states its role check (requireAuth / requireRole). */
@@ -24,6 +25,7 @@ export function apiRouter(config: Config): Router {
   router.use(healthRouter());
   router.use(authRouter(config));
   router.use(usersRouter());
+  router.use(sessionsRouter());
   router.use(settingsRouter());
   router.use(calcRouter());
   router.use(inventoryRouter());

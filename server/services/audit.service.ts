@@ -34,6 +34,7 @@ import type {
 } from '../../shared/schemas/audit.ts';
 import { AuditEntry } from '../db/models/index.ts';
 import { canonicalJson, writeTransaction } from '../db/transaction.ts';
+import { currentSessionId } from './request-context.ts';
 
 export const GENESIS_HASH = '0'.repeat(64);
 
@@ -44,6 +45,8 @@ export interface AuditInput {
   entityId: string | number | null;
   changes?: Array<{ field: string; oldValue: unknown; newValue: unknown }>;
   reason?: string | null;
+  /** The session the change was made in; default: the current request's authenticated session. Stored, not hashed. */
+  sessionId?: string | null;
 }
 
 /** The hashed content of one entry, exactly as verifyAuditChain rebuilds it. */
@@ -106,7 +109,13 @@ export async function recordAudit(input: AuditInput, transaction: Transaction): 
     reason,
   };
   await AuditEntry.create(
-    { ...content, changes: changesJson, prevHash, hash: entryHash(prevHash, content) },
+    {
+      ...content,
+      changes: changesJson,
+      prevHash,
+      hash: entryHash(prevHash, content),
+      sessionId: input.sessionId !== undefined ? input.sessionId : currentSessionId(),
+    },
     { transaction },
   );
 }
@@ -226,6 +235,7 @@ function toDto(row: AuditEntry): AuditEntryDto {
     reason: row.reason,
     prevHash: row.prevHash,
     hash: row.hash,
+    sessionId: row.sessionId ?? null,
   };
 }
 
@@ -297,6 +307,7 @@ export const AUDIT_CSV_COLUMNS = [
   'reason',
   'prev_hash',
   'hash',
+  'session_id',
 ] as const;
 
 /**
@@ -333,6 +344,7 @@ export function auditCsvLine(e: AuditEntryDto): string {
     e.reason,
     e.prevHash,
     e.hash,
+    e.sessionId,
   ]);
 }
 

@@ -4,13 +4,15 @@
  * Every sign-in, refused sign-in, lockout and sign-out is audited (REQUIREMENTS AT-08); a refused
  * sign-in's entry commits before the request fails.
  */
-import type { LoginInput, SessionUser } from '../../shared/schemas/auth.ts';
-import type { Transaction } from 'sequelize';
+import type { ChangePasswordInput, LoginInput, SessionUser } from '../../shared/schemas/auth.ts';
+import { passwordProblem } from '../../shared/schemas/password-rules.ts';
+import { QueryTypes, type Transaction } from 'sequelize';
 import { User } from '../db/models/index.ts';
 import { writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
-import { burnComparison, verifyPassword } from './passwords.ts';
+import { burnComparison, hashPassword, verifyPassword } from './passwords.ts';
+import { createSession, endSession, endUserSessions } from './sessions.service.ts';
 import { toSessionUser } from './user-dto.ts';
 
 export const WRONG_CREDENTIALS = 'Email or password is not correct';
@@ -32,7 +34,16 @@ async function recordFailure(
   });
 }
 
-export async function signIn(input: LoginInput, opts: { lockoutThreshold: number }): Promise<SessionUser> {
+export interface SignInClient {
+  ip?: string | null;
+  userAgent?: string | null;
+}
+
+/** Checks the password and opens a session (a row in `sessions`); the route puts its id in the cookie. */
+export async function signIn(
+  input: LoginInput,
+  opts: { lockoutThreshold: number; client?: SignInClient },
+): Promise<{ user: SessionUser; sessionId: string }> {
   const email = input.email.trim().toLowerCase();
   const user = await User.findOne({ where: { email } });
   if (!user) {
@@ -68,13 +79,17 @@ export async function signIn(input: LoginInput, opts: { lockoutThreshold: number
         transaction,
       );
       if (nowLocked) {
+        const ended = await endUserSessions(user.id, 'locked', transaction);
         await recordAudit(
           {
             actor: null,
             action: 'account_locked',
             entity: 'user',
             entityId: user.id,
-            changes: [{ field: 'locked', oldValue: false, newValue: true }],
+            changes: [
+              { field: 'locked', oldValue: false, newValue: true },
+              ...(ended ? [{ field: 'sessionsEnded', oldValue: null, newValue: ended }] : []),
+            ],
             reason: `${user.failedLoginCount} consecutive failed sign-ins`,
           },
           transaction,
@@ -89,34 +104,142 @@ export async function signIn(input: LoginInput, opts: { lockoutThreshold: number
     throw new AppError('account_inactive', 403, INACTIVE_MESSAGE);
   }
 
-  await writeTransaction(async (transaction) => {
+  const sessionId = await writeTransaction(async (transaction) => {
     user.failedLoginCount = 0;
     user.lastLoginAt = new Date().toISOString();
     await user.save({ transaction });
+    const id = await createSession(user.id, opts.client ?? {}, transaction);
     await recordAudit(
-      { actor: { id: user.id, fullName: user.fullName }, action: 'sign_in', entity: 'session', entityId: user.id },
+      {
+        actor: { id: user.id, fullName: user.fullName },
+        action: 'sign_in',
+        entity: 'session',
+        entityId: user.id,
+        ...(user.mustChangePassword ? { reason: 'Password set by an administrator: must be changed before anything else' } : {}),
+        sessionId: id,
+      },
+      transaction,
+    );
+    return id;
+  });
+  return { user: toSessionUser(user), sessionId };
+}
+
+/** Ends this session and records it; the route destroys the cookie. An unknown or ended session is skipped. */
+export async function signOut(sessionId: string | undefined): Promise<void> {
+  if (!sessionId) return;
+  await writeTransaction(async (transaction) => {
+    const [row] = await User.sequelize!.query<{ user_id: number }>(
+      'SELECT user_id FROM sessions WHERE id = :id AND ended_at IS NULL',
+      { type: QueryTypes.SELECT, replacements: { id: sessionId }, transaction },
+    );
+    if (!row) return;
+    const user = await User.findByPk(Number(row.user_id), { transaction });
+    await endSession(sessionId, 'sign_out', transaction);
+    await recordAudit(
+      {
+        actor: user ? { id: user.id, fullName: user.fullName } : null,
+        action: 'sign_out',
+        entity: 'session',
+        entityId: Number(row.user_id),
+        sessionId,
+      },
       transaction,
     );
   });
-  return toSessionUser(user);
 }
 
-/** Records the end of a session; the route destroys the cookie. Unknown ids (account gone) are skipped. */
-export async function signOut(userId: number | undefined): Promise<void> {
-  if (!userId) return;
-  const user = await User.findByPk(userId);
-  if (!user) return;
-  await writeTransaction((transaction) =>
-    recordAudit(
-      { actor: { id: user.id, fullName: user.fullName }, action: 'sign_out', entity: 'session', entityId: user.id },
+/**
+ * The signed-in person changes their own password (old + new). Every session of the account ends, this one
+ * included, and a fresh session is returned for this browser, so a copied cookie stops working. A wrong
+ * current password counts towards the lockout like a wrong sign-in (REQUIREMENTS PW-03).
+ */
+export async function changeOwnPassword(
+  actor: { id: number },
+  currentSessionId: string,
+  input: ChangePasswordInput,
+  opts: { lockoutThreshold: number; client?: SignInClient },
+): Promise<{ user: SessionUser; sessionId: string }> {
+  const user = await User.findByPk(actor.id);
+  if (!user || !user.active) throw new AppError('unauthenticated', 401, 'Sign in to continue');
+  if (user.lockedAt) throw locked();
+  if (!(await verifyPassword(input.currentPassword, user.passwordHash))) {
+    let nowLocked = false;
+    await writeTransaction(async (transaction) => {
+      await user.reload({ transaction });
+      const before = user.failedLoginCount ?? 0;
+      user.failedLoginCount = before + 1;
+      nowLocked = !user.lockedAt && user.failedLoginCount >= opts.lockoutThreshold;
+      if (nowLocked) user.lockedAt = new Date().toISOString();
+      await user.save({ transaction });
+      const who = { id: user.id, fullName: user.fullName };
+      await recordAudit(
+        {
+          actor: who,
+          action: 'password_change_failed',
+          entity: 'user',
+          entityId: user.id,
+          changes: [{ field: 'failedLoginCount', oldValue: before, newValue: user.failedLoginCount }],
+          reason: 'Wrong current password',
+        },
+        transaction,
+      );
+      if (nowLocked) {
+        const ended = await endUserSessions(user.id, 'locked', transaction);
+        await recordAudit(
+          {
+            actor: null,
+            action: 'account_locked',
+            entity: 'user',
+            entityId: user.id,
+            changes: [
+              { field: 'locked', oldValue: false, newValue: true },
+              { field: 'sessionsEnded', oldValue: null, newValue: ended },
+            ],
+            reason: `${user.failedLoginCount} consecutive failed passwords`,
+          },
+          transaction,
+        );
+      }
+    });
+    if (nowLocked) throw locked();
+    throw new AppError('invalid_credentials', 400, 'The current password is not correct', {
+      fields: { currentPassword: 'This is not your current password' },
+    });
+  }
+  const problem = passwordProblem(input.newPassword, { email: user.email, fullName: user.fullName });
+  if (problem) throw AppError.validation(problem, { newPassword: problem });
+  if (await verifyPassword(input.newPassword, user.passwordHash)) {
+    const message = 'Choose a password different from the current one';
+    throw AppError.validation(message, { newPassword: message });
+  }
+  const passwordHash = await hashPassword(input.newPassword); // slow: outside the write lock
+  const sessionId = await writeTransaction(async (transaction) => {
+    await user.reload({ transaction });
+    const wasTemporary = Boolean(user.mustChangePassword);
+    user.passwordHash = passwordHash;
+    user.mustChangePassword = false;
+    user.failedLoginCount = 0;
+    await user.save({ transaction });
+    const ended = await endUserSessions(user.id, 'password_changed', transaction);
+    const id = await createSession(user.id, opts.client ?? {}, transaction);
+    await recordAudit(
+      {
+        actor: { id: user.id, fullName: user.fullName },
+        action: 'password_changed',
+        entity: 'user',
+        entityId: user.id,
+        // The trail says that the password changed, never what it was or is.
+        changes: [
+          { field: 'password', oldValue: null, newValue: 'password changed by its owner' },
+          ...(wasTemporary ? [{ field: 'mustChangePassword', oldValue: true, newValue: false }] : []),
+          { field: 'sessionsEnded', oldValue: null, newValue: ended },
+        ],
+        sessionId: currentSessionId,
+      },
       transaction,
-    ),
-  );
-}
-
-/** The user behind a session, or null when the account is gone or deactivated. */
-export async function findSessionUser(userId: number): Promise<SessionUser | null> {
-  const user = await User.findByPk(userId);
-  if (!user || !user.active) return null;
-  return toSessionUser(user);
+    );
+    return id;
+  });
+  return { user: toSessionUser(user), sessionId };
 }

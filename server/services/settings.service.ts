@@ -9,6 +9,7 @@ import type { Transaction } from 'sequelize';
 import { Setting } from '../db/models/index.ts';
 import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { recordAudit } from './audit.service.ts';
+import { forgetIdleTimeout } from './sessions.service.ts';
 
 export async function getSettings(transaction?: Transaction): Promise<LabSettings> {
   const rows = await Setting.findAll({ transaction });
@@ -37,7 +38,7 @@ export async function updateSettings(
   input: UpdateLabSettingsInput,
   actor: { id: number; fullName: string },
 ): Promise<LabSettings> {
-  return writeTransaction(async (transaction) => {
+  const saved = await writeTransaction(async (transaction) => {
     const current = await getSettings(transaction);
     const next: LabSettings = labSettingsSchema.parse({
       ...current,
@@ -57,4 +58,6 @@ export async function updateSettings(
     }
     return next;
   });
+  forgetIdleTimeout(); // a new idle timeout applies from the next request (after commit)
+  return saved;
 }

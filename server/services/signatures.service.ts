@@ -78,6 +78,8 @@ import { returnedMail, verificationRequestedMail, verifiedMail, type RecordRef }
 import { recordAudit } from './audit.service.ts';
 import { nextStatus, invalidTransition, transition, dataEntryMode, type StatusEvent } from './preparation-status.ts';
 import { verifyPassword } from './passwords.ts';
+import { endUserSessions } from './sessions.service.ts';
+import { PASSWORD_CHANGE_REQUIRED } from '../../shared/schemas/auth.ts';
 import { activeAliquot, dilutionResultOf, isDilutionKind, lineageRow } from './lineage-view.ts';
 import { mixCompleteness, mixEntriesOf, mixHashFields, mixPlanOf, type MixEntries } from './mix-view.ts';
 import { getSettings } from './settings.service.ts';
@@ -500,6 +502,8 @@ const LOCKED = () => new AppError('account_locked', 423, 'This account is locked
  */
 export async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number): Promise<void> {
   if (user.lockedAt) throw LOCKED();
+  // A password an administrator set is known to someone else: it signs nothing (21 CFR 11.300).
+  if (user.mustChangePassword) throw new AppError(PASSWORD_CHANGE_REQUIRED, 403, 'Choose your own password before signing: the current one was set by an administrator');
   if (await verifyPassword(password, user.passwordHash)) return;
   let nowLocked = false;
   await writeTransaction(async (transaction) => {
@@ -515,8 +519,9 @@ export async function checkSignerPassword(user: User, password: string, what: st
       transaction,
     );
     if (nowLocked) {
+      const ended = await endUserSessions(user.id, 'locked', transaction);
       await recordAudit(
-        { actor: null, action: 'account_locked', entity: 'user', entityId: user.id, changes: [{ field: 'locked', oldValue: false, newValue: true }], reason: `${user.failedLoginCount} consecutive failed passwords (sign-in or signing)` },
+        { actor: null, action: 'account_locked', entity: 'user', entityId: user.id, changes: [{ field: 'locked', oldValue: false, newValue: true }, { field: 'sessionsEnded', oldValue: null, newValue: ended }], reason: `${user.failedLoginCount} consecutive failed passwords (sign-in or signing)` },
         transaction,
       );
     }

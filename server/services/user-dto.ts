@@ -3,7 +3,7 @@ import type { User as UserDto } from '../../shared/schemas/users.ts';
 import type { User } from '../db/models/index.ts';
 
 export function toSessionUser(u: User): SessionUser {
-  return { id: u.id, email: u.email, fullName: u.fullName, initials: u.initials, role: u.role };
+  return { id: u.id, email: u.email, fullName: u.fullName, initials: u.initials, role: u.role, mustChangePassword: Boolean(u.mustChangePassword) };
 }
 
 export function toUserDto(u: User): UserDto {
@@ -18,6 +18,7 @@ export function toUserDto(u: User): UserDto {
     lockedAt: u.lockedAt ?? null,
     failedLoginCount: u.failedLoginCount ?? 0,
     lastLoginAt: u.lastLoginAt ?? null,
+    mustChangePassword: Boolean(u.mustChangePassword),
     createdAt: u.createdAt,
     updatedAt: u.updatedAt,
   };

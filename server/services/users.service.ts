@@ -2,12 +2,15 @@
  * User administration (admin role). Accounts are deactivated, never deleted, so user ids are never
  * reused (REQUIREMENTS ES-05). Every change is audited field by field in the same transaction (AT-01, AC-04).
  */
+import type { Transaction } from 'sequelize';
+import { passwordProblem } from '../../shared/schemas/password-rules.ts';
 import type { CreateUserInput, UpdateUserInput, User as UserDto } from '../../shared/schemas/users.ts';
 import { User } from '../db/models/index.ts';
 import { AppError } from '../errors/app-error.ts';
 import { writeTransaction, diffFields } from '../db/transaction.ts';
 import { recordAudit } from './audit.service.ts';
 import { hashPassword } from './passwords.ts';
+import { endUserSessions } from './sessions.service.ts';
 import { toUserDto } from './user-dto.ts';
 
 type Actor = { id: number; fullName: string };
@@ -27,6 +30,33 @@ export async function getUser(id: number): Promise<UserDto> {
   return toUserDto(await load(id));
 }
 
+/** Full names compared ignoring case, spaces and full stops ("Dr. Maren  Tollefsen" = "dr maren tollefsen"). */
+const nameKey = (name: string) => name.toLowerCase().replace(/[\s.]+/g, ' ').trim();
+
+/**
+ * An e-signature names one person (21 CFR 11.100(a)): no two active accounts may carry the same full name and
+ * initials, or a second account could verify its holder's own work under the same printed name. 409 naming
+ * both fields. Checked inside the write transaction, so two admins cannot both create the twin.
+ */
+async function refuseTwin(person: { id?: number; fullName: string; initials: string }, transaction: Transaction): Promise<void> {
+  const active = await User.findAll({ where: { active: true }, transaction });
+  const twin = active.find(
+    (u) => u.id !== person.id && nameKey(u.fullName) === nameKey(person.fullName) && u.initials.toUpperCase() === person.initials.toUpperCase(),
+  );
+  if (!twin) return;
+  const message = `${twin.fullName} (${twin.initials}) already has an active account; one person signs from one account`;
+  throw AppError.conflict(message, {
+    fullName: 'An active account already has this name and these initials',
+    initials: 'An active account already has this name and these initials',
+  });
+}
+
+/** A password an administrator stores: the rules that need the account (its e-mail and name). */
+function refuseWeakPassword(password: string, user: { email: string; fullName: string }): void {
+  const problem = passwordProblem(password, user);
+  if (problem) throw AppError.validation(problem, { password: problem });
+}
+
 /** The fields of a user the audit trail compares (never the password hash). */
 const audited = (u: User) => ({ email: u.email, fullName: u.fullName, initials: u.initials, role: u.role, active: Boolean(u.active) });
 
@@ -35,13 +65,18 @@ export async function createUser(input: CreateUserInput, actor: Actor): Promise<
   if (await User.findOne({ where: { email } })) {
     throw AppError.conflict('A user with this email address already exists', { email: 'This email address is already in use' });
   }
+  refuseWeakPassword(input.password, { email, fullName: input.fullName });
   const passwordHash = await hashPassword(input.password); // slow: outside the write lock
   const user = await writeTransaction(async (transaction) => {
+    const fullName = input.fullName.trim();
+    const initials = input.initials.trim().toUpperCase();
+    await refuseTwin({ fullName, initials }, transaction);
+    // The administrator chose this password: it is temporary until the person chooses their own.
     const created = await User.create(
-      { email, fullName: input.fullName.trim(), initials: input.initials.trim().toUpperCase(), role: input.role, passwordHash },
+      { email, fullName, initials, role: input.role, passwordHash, mustChangePassword: true },
       { transaction },
     );
-    const fields = audited(created);
+    const fields = { ...audited(created), mustChangePassword: true };
     await recordAudit(
       {
         actor,
@@ -74,7 +109,14 @@ export async function updateUser(id: number, input: UpdateUserInput, actor: Acto
     if (input.active !== undefined) user.active = input.active;
     const changes = diffFields(before, audited(user));
     if (changes.length === 0) return; // nothing changed: nothing to save or record
+    if (user.active && changes.some((c) => ['fullName', 'initials', 'active'].includes(c.field))) {
+      await refuseTwin({ id: user.id, fullName: user.fullName, initials: user.initials }, transaction);
+    }
     await user.save({ transaction });
+    if (before.active && !user.active) {
+      const ended = await endUserSessions(user.id, 'deactivated', transaction);
+      changes.push({ field: 'sessionsEnded', oldValue: null, newValue: ended });
+    }
     await recordAudit({ actor, action: 'update', entity: 'user', entityId: user.id, changes }, transaction);
   });
   return toUserDto(user);
@@ -104,10 +146,16 @@ export async function unlockUser(id: number, actor: Actor): Promise<UserDto> {
 
 export async function setUserPassword(id: number, password: string, actor: Actor): Promise<UserDto> {
   const user = await load(id);
+  refuseWeakPassword(password, user);
   const passwordHash = await hashPassword(password); // slow: outside the write lock
   await writeTransaction(async (transaction) => {
+    await user.reload({ transaction });
+    const wasTemporary = Boolean(user.mustChangePassword);
     user.passwordHash = passwordHash;
+    // Someone else now knows it: temporary until the person chooses their own, and every session ends.
+    user.mustChangePassword = true;
     await user.save({ transaction });
+    const ended = await endUserSessions(user.id, 'password_reset', transaction);
     // The trail says that the password changed, never what it was or is.
     await recordAudit(
       {
@@ -115,7 +163,11 @@ export async function setUserPassword(id: number, password: string, actor: Actor
         action: 'password_changed',
         entity: 'user',
         entityId: user.id,
-        changes: [{ field: 'password', oldValue: null, newValue: 'password changed' }],
+        changes: [
+          { field: 'password', oldValue: null, newValue: 'password set by an administrator' },
+          ...(wasTemporary ? [] : [{ field: 'mustChangePassword', oldValue: false, newValue: true }]),
+          { field: 'sessionsEnded', oldValue: null, newValue: ended },
+        ],
       },
       transaction,
     );

@@ -66,6 +66,8 @@ export const auditEntrySchema = z.object({
   reason: z.string().nullable(),
   prevHash: z.string(),
   hash: z.string(),
+  /** The session the entry was written in; null for older entries, anonymous events and scheduled jobs. */
+  sessionId: z.string().nullable().optional(),
 });
 export type AuditEntryDto = z.infer<typeof auditEntrySchema>;
 
@@ -117,6 +119,9 @@ export const AUDIT_ACTION_LABELS: Record<string, string> = {
   sign_in: 'Signed in',
   sign_in_failed: 'Sign-in failed',
   sign_out: 'Signed out',
+  sign_out_everywhere: 'Signed out everywhere',
+  session_ended: 'Session ended',
+  password_change_failed: 'Password change refused',
   account_locked: 'Account locked',
   account_unlocked: 'Account unlocked',
   password_changed: 'Password changed',

@@ -62,7 +62,12 @@ export const labSettingsSchema = z.object({
   stabilityRules: z.array(stabilityRuleSchema).max(100, 'Use at most 100 rules').optional(),
   /** Days before expiry that a standard appears in the daily expiry digest to its preparer (unset: DEFAULT_EXPIRY_NOTICE_DAYS). */
   expiryNoticeDays: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 365 days').max(365, 'Use 0 to 365 days').optional(),
+  /** Minutes without activity after which a session ends (unset: DEFAULT_SESSION_IDLE_MINUTES; Annex 11 §12). */
+  sessionIdleMinutes: z.number({ error: 'Enter a whole number of minutes' }).int('Enter a whole number of minutes').min(5, 'Use 5 to 480 minutes').max(480, 'Use 5 to 480 minutes').optional(),
 });
+
+/** Used when settings.sessionIdleMinutes is unset (common practice for shared lab terminals: 30 min). */
+export const DEFAULT_SESSION_IDLE_MINUTES = 30;
 
 /** Used when settings.expiryNoticeDays is unset (a lab choice, common practice: two weeks' notice). */
 export const DEFAULT_EXPIRY_NOTICE_DAYS = 14;

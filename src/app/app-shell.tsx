@@ -3,6 +3,7 @@ import { NavLink, Outlet, useLocation, useNavigate } from 'react-router';
 import { Brand } from './brand.tsx';
 import { useAuth } from '../features/auth/use-auth.ts';
 import { useSignOut } from '../features/auth/api/sign-out.ts';
+import { useSignOutEverywhere } from '../features/auth/api/account.ts';
 import type { Role } from '../features/auth/types.ts';
 import { roleLabel } from '../lib/format.ts';
 import { ScanBox } from '../features/scan/scan-box.tsx';
@@ -22,6 +23,7 @@ const NAV: NavItem[] = [
   { to: '/inventory/solvents', label: 'Solvents', group: 'Inventory', testId: 'nav-inventory-solvents' },
   { to: '/trace', label: 'Trace', roles: ['qa', 'admin', 'chemist'], testId: 'nav-trace' },
   { to: '/audit', label: 'Audit trail', roles: ['qa', 'admin'], testId: 'nav-audit' },
+  { to: '/sessions', label: 'Active sessions', roles: ['qa', 'admin'], testId: 'nav-sessions' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
   { to: '/admin/outbox', label: 'Outbox', roles: ['admin'], testId: 'nav-outbox' },
   { to: '/admin/label-templates', label: 'Label templates', roles: ['admin'], testId: 'nav-label-templates' },
@@ -57,6 +59,7 @@ function NavList({ role, onNavigate }: { role: Role; onNavigate?: () => void }) 
 function UserCard({ onSignedOut }: { onSignedOut?: () => void }) {
   const auth = useAuth();
   const signOut = useSignOut();
+  const everywhere = useSignOutEverywhere();
   const navigate = useNavigate();
   if (auth.status !== 'signed-in') return null;
   const { user } = auth;
@@ -91,6 +94,33 @@ function UserCard({ onSignedOut }: { onSignedOut?: () => void }) {
       >
         {signOut.isPending ? 'Signing out…' : 'Sign out'}
       </button>
+      <div className="flex flex-wrap gap-2">
+        <NavLink
+          to="/account/password"
+          onClick={onSignedOut}
+          data-testid="nav-change-password"
+          className="flex min-h-12 flex-1 items-center justify-center rounded-lg border-2 border-white/25 px-3 text-sm font-semibold text-slate-100 hover:bg-white/10"
+        >
+          Change password
+        </NavLink>
+        <button
+          type="button"
+          data-testid="sign-out-everywhere"
+          disabled={everywhere.isPending}
+          onClick={() => {
+            if (!window.confirm('Sign out on every device where this account is signed in, this one included?')) return;
+            everywhere.mutate(undefined, {
+              onSettled: () => {
+                onSignedOut?.();
+                navigate('/sign-in', { replace: true });
+              },
+            });
+          }}
+          className="min-h-12 flex-1 rounded-lg border-2 border-white/25 px-3 text-sm font-semibold text-slate-100 hover:bg-white/10"
+        >
+          {everywhere.isPending ? 'Signing out…' : 'Sign out everywhere'}
+        </button>
+      </div>
     </div>
   );
 }
@@ -111,7 +141,7 @@ export function AppShell() {
 
       {/* Desktop: fixed sidebar */}
       <div className="hidden bg-slate-900 lg:block">
-        <aside className="sticky top-0 flex h-screen flex-col gap-8 p-5 text-white" aria-label="Main">
+        <aside className="sticky top-0 flex h-screen flex-col gap-8 overflow-y-auto p-5 text-white" aria-label="Main">
           <Brand />
           <nav aria-label="Main navigation" className="flex-1">
             <NavList role={role} />

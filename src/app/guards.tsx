@@ -4,6 +4,7 @@ import type { Role } from '../features/auth/types.ts';
 import { Banner, Spinner } from '../components/ui/feedback.tsx';
 import { Button } from '../components/ui/button.tsx';
 import { NotAllowed } from '../components/errors/not-allowed.tsx';
+import { ChangePasswordPage } from '../features/auth/change-password-page.tsx';
 
 /** Signed-out users go to /sign-in; the page they wanted is remembered for after sign-in. */
 export function RequireAuth() {
@@ -30,6 +31,8 @@ export function RequireAuth() {
     const from = location.pathname + location.search;
     return <Navigate to="/sign-in" replace state={{ from }} />;
   }
+  // A password an administrator set: nothing else until the person chooses their own (the server refuses all else).
+  if (auth.user.mustChangePassword) return <ChangePasswordPage forced />;
   return <Outlet />;
 }
 

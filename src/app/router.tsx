@@ -4,6 +4,7 @@ import { RequireAuth, RequireRole } from './guards.tsx';
 import { RouteError } from '../components/errors/route-error.tsx';
 import { NotFound } from '../components/errors/not-found.tsx';
 import { SignInPage } from '../features/auth/sign-in-page.tsx';
+import { ChangePasswordPage } from '../features/auth/change-password-page.tsx';
 import { HomePage } from '../features/home/home-page.tsx';
 import { Spinner } from '../components/ui/feedback.tsx';
 import { inventoryRoutes } from '../features/inventory/routes.tsx';
@@ -74,6 +75,12 @@ export const router = createBrowserRouter([
             path: 'trace',
             element: <RequireRole roles={['qa', 'admin', 'chemist']} />,
             children: [{ index: true, lazy: async () => ({ Component: (await import('../features/trace/trace-page.tsx')).TracePage }) }],
+          },
+          { path: 'account/password', Component: ChangePasswordPage },
+          {
+            path: 'sessions',
+            element: <RequireRole roles={['qa', 'admin']} />,
+            children: [{ index: true, lazy: async () => ({ Component: (await import('../features/sessions/sessions-page.tsx')).SessionsPage }) }],
           },
           {
             path: 'audit',

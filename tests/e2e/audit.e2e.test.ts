@@ -59,7 +59,7 @@ describe('audit trail page', () => {
       expect(csv.status()).toBe(200);
       expect(csv.headers()['content-disposition']).toMatch(/^attachment;/);
       const lines = (await csv.text()).split('\r\n');
-      expect(lines[0]).toBe('id,occurred_at_utc,actor_id,actor_name,action,entity,entity_id,changes,reason,prev_hash,hash');
+      expect(lines[0]).toBe('id,occurred_at_utc,actor_id,actor_name,action,entity,entity_id,changes,reason,prev_hash,hash,session_id');
       expect(lines.slice(1).filter(Boolean)).toHaveLength(1);
 
       await page.click('[data-testid="audit-verify"]');

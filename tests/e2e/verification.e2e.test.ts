@@ -361,13 +361,22 @@ describe('signatures and second-person verification', () => {
       fullName: 'Saoirse Brannigan-Hale',
       initials: 'SBH',
       role: 'chemist',
-      password: 'first-sign-2026',
+      password: 'set-by-the-admin-2026', // temporary: she chooses her own at first sign-in
     });
     expect(created.status, JSON.stringify(created.body)).toBe(201);
     const saoirse = await openPage(browser, TABLET);
     pages.push(saoirse);
     const sp = saoirse.page;
-    await signIn(sp, server.baseUrl, 'saoirse.brannigan@harbourside.example', 'first-sign-2026');
+    await sp.goto(`${server.baseUrl}/sign-in`);
+    await sp.fill('input[name="email"]', 'saoirse.brannigan@harbourside.example');
+    await sp.fill('input[name="password"]', 'set-by-the-admin-2026');
+    await sp.click('[data-testid="sign-in-submit"]');
+    await sp.waitForSelector('[data-testid="forced-password-explainer"]');
+    await sp.fill('input[name="currentPassword"]', 'set-by-the-admin-2026');
+    await sp.fill('input[name="newPassword"]', 'first-sign-2026');
+    await sp.fill('input[name="confirmPassword"]', 'first-sign-2026');
+    await sp.click('[data-testid="change-password-submit"]');
+    await sp.waitForSelector('[data-testid="home-role"]');
     // Discard the demo nitrate standard (planned only in the seed): a reason and the statement are required.
     const list = await call(sp, 'GET', '/api/preparations?search=NO3&page=1&pageSize=25');
     const nitrate = list.body.items.find((p: any) => p.analyteFormula === 'NO3' && p.status === 'planned');

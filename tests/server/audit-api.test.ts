@@ -125,6 +125,7 @@ describe('user administration events', () => {
       { field: 'initials', oldValue: null, newValue: 'AQ' },
       { field: 'role', oldValue: null, newValue: 'chemist' },
       { field: 'active', oldValue: null, newValue: true },
+      { field: 'mustChangePassword', oldValue: null, newValue: true }, // the admin chose it: temporary
     ]);
     const raw = JSON.stringify(entry);
     expect(raw).not.toContain('long-enough-pass');
@@ -140,6 +141,7 @@ describe('user administration events', () => {
     expect(entries[0]!.changes).toEqual([
       { field: 'role', oldValue: 'chemist', newValue: 'qa' },
       { field: 'active', oldValue: true, newValue: false },
+      { field: 'sessionsEnded', oldValue: null, newValue: 0 }, // deactivation ends every session (none here)
     ]);
   });
 
@@ -154,7 +156,10 @@ describe('user administration events', () => {
     expect((await request(t.app).post(`/api/users/${newId}/password`).set('Cookie', admin).send({ password: 'another-long-pass' })).status).toBe(200);
     const entries = await since(m);
     expect(entries).toMatchObject([{ action: 'password_changed', entity: 'user', entityId: String(newId) }]);
-    expect(entries[0]!.changes).toEqual([{ field: 'password', oldValue: null, newValue: 'password changed' }]);
+    expect(entries[0]!.changes).toEqual([
+      { field: 'password', oldValue: null, newValue: 'password set by an administrator' },
+      { field: 'sessionsEnded', oldValue: null, newValue: 0 },
+    ]);
     expect(JSON.stringify(entries)).not.toContain('another-long-pass');
   });
 
@@ -250,7 +255,7 @@ describe('GET /api/audit/export.csv', () => {
     expect(res.headers['content-type']).toMatch(/^text\/csv/);
     expect(res.headers['content-disposition']).toMatch(/^attachment; filename="tarebook-audit-\d{8}T\d{6}Z\.csv"$/);
     const lines = res.text.split('\r\n');
-    expect(lines[0]).toBe('id,occurred_at_utc,actor_id,actor_name,action,entity,entity_id,changes,reason,prev_hash,hash');
+    expect(lines[0]).toBe('id,occurred_at_utc,actor_id,actor_name,action,entity,entity_id,changes,reason,prev_hash,hash,session_id');
     expect(lines.at(-1)).toBe(''); // every line ends in CRLF
     const body = lines.slice(1, -1);
     expect(body.length).toBe(await AuditEntry.count({ where: { entity: 'user' } }));

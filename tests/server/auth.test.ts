@@ -19,7 +19,7 @@ describe('POST /api/auth/login', () => {
     const res = await login(DEMO.chemist, DEMO_PASSWORD);
     expect(res.status).toBe(200);
     expect(res.body).toEqual({
-      user: { id: expect.any(Number), email: DEMO.chemist, fullName: 'Dr. Maren Tollefsen', initials: 'MT', role: 'chemist' },
+      user: { id: expect.any(Number), email: DEMO.chemist, fullName: 'Dr. Maren Tollefsen', initials: 'MT', role: 'chemist', mustChangePassword: false },
     });
     const cookie = ([] as string[]).concat(res.headers['set-cookie'] ?? []).join('\n');
     expect(cookie).toMatch(/tarebook_session=/);
@@ -140,7 +140,7 @@ describe('GET /api/auth/me and POST /api/auth/logout', () => {
     const me = await agent.get('/api/auth/me');
     expect(me.status).toBe(200);
     expect(me.body).toEqual({
-      user: { id: expect.any(Number), email: DEMO.qa, fullName: 'Tomasz Achterberg', initials: 'TA', role: 'qa' },
+      user: { id: expect.any(Number), email: DEMO.qa, fullName: 'Tomasz Achterberg', initials: 'TA', role: 'qa', mustChangePassword: false },
     });
     const out = await agent.post('/api/auth/logout');
     expect(out.status).toBe(204);
@@ -167,7 +167,7 @@ describe('POST /api/users/:id/password', () => {
     const id = await userIdByEmail(t.app, admin, DEMO.inactive);
     const res = await request(t.app).post(`/api/users/${id}/password`).set('Cookie', admin).send({ password: 'short' });
     expect(res.status).toBe(400);
-    expect(res.body.error.fields).toEqual({ password: 'Use at least 10 characters' });
+    expect(res.body.error.fields).toEqual({ password: 'Use at least 12 characters' }); // NIST SP 800-63B §5.1.1.2 floor 8; 12 is the lab's rule
   });
 
   it('then no password hash is stored in plain text', async () => {

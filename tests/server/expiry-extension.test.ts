@@ -411,7 +411,10 @@ describe('lockout (REQUIREMENTS PW-03; the signature service counts signing fail
     for (let i = 0; i < t.config.lockoutThreshold; i++) statuses.push((await extend('qa', made.verified.identifier, { password: `wrong-${i}` })).status);
     expect(statuses.slice(0, -1).every((s) => s === 401)).toBe(true);
     expect(statuses.at(-1)).toBe(423);
-    const locked = await extend('qa', made.verified.identifier);
+    // the lock ended the QA session (migration 0016): the cookie is refused; signing in again says locked
+    const after = await extend('qa', made.verified.identifier);
+    expect(after.status).toBe(401);
+    const locked = await request(t.app).post('/api/auth/login').send({ email: DEMO.qa, password: DEMO_PASSWORD });
     expect(locked.status).toBe(423);
     expectErrorBody(locked.body, 'account_locked');
     expect(await AuditEntry.count({ where: { action: 'account_locked' } })).toBe(1);

@@ -21,6 +21,8 @@ interface Row {
   allowed: 'public' | 'signedIn' | Exclude<Who, 'signedOut'>[];
   ok: number;
   body?: (who: Who) => unknown;
+  /** sends a session of its own (signed in for this request), e.g. logout, which ends the session it is sent with */
+  ownSession?: boolean;
 }
 
 let t: TestApp;
@@ -30,7 +32,8 @@ let targetId: number;
 const ROWS: Row[] = [
   { method: 'get', path: '/api/health', allowed: 'public', ok: 200 },
   { method: 'post', path: '/api/auth/login', allowed: 'public', ok: 200, body: () => ({ email: DEMO.qa, password: DEMO_PASSWORD }) },
-  { method: 'post', path: '/api/auth/logout', allowed: 'public', ok: 204 },
+  { method: 'post', path: '/api/auth/logout', allowed: 'public', ok: 204, ownSession: true },
+  { method: 'get', path: '/api/sessions', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'get', path: '/api/auth/me', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/users', allowed: ['admin'], ok: 200 },
   {
@@ -109,6 +112,10 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'GET /api/series/:key/sheet.pdf': 'series.test.ts',
   'POST /api/preparations/:key/expiry-extensions': 'expiry-extension.test.ts',
   'POST /api/mixes': 'mixes.test.ts',
+  // these end sessions of the caller or someone else, so they get their own sessions there
+  'POST /api/auth/logout-everywhere': 'sessions.test.ts',
+  'POST /api/auth/password': 'sessions.test.ts',
+  'POST /api/sessions/:id/end': 'sessions.test.ts',
 };
 
 type Allowed = Row['allowed'];
@@ -198,7 +205,7 @@ describe('permission matrix', () => {
   it.each(cases)('%s as %s', async (_name, who, row) => {
     const url = row.path.replace(':entity/:entityId', 'preparation/1').replace(':identifier', 'HWL-2026-0001').replace(':key', 'HWL-2026-0001').replace(':id', String(targetId));
     let req = request(t.app)[row.method](url);
-    if (who !== 'signedOut') req = req.set('Cookie', cookies[who]!);
+    if (who !== 'signedOut') req = req.set('Cookie', row.ownSession ? await sessionCookie(t.app, DEMO[who]) : cookies[who]!);
     if (row.body) req = req.send(row.body(who) as object);
     const res = await req;
     const want = expected(row, who);

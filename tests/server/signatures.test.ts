@@ -10,7 +10,7 @@ import { SIGNATURES_APPEND_ONLY } from '../../server/db/migrations/0006-signatur
 import { TRANSITIONS, nextStatus } from '../../server/services/preparation-status.ts';
 import { currentRecordHash, verifySignatures } from '../../server/services/signatures.service.ts';
 import { SIGNATURE_MEANING_TEXT, VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
-import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { choosePassword, DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, TEMPORARY_PASSWORD, type TestApp } from './helpers/test-app.ts';
 import { demoInstant } from '../../seed/demo-clock.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'chemist3' | 'technician' | 'qa' | 'admin';
@@ -83,9 +83,9 @@ async function signOk(who: Who, key: string, meaning: string, over: Record<strin
 beforeAll(async () => {
   t = await makeTestApp();
   for (const who of ['chemist', 'chemist2', 'technician', 'qa', 'admin'] as const) cookie[who] = await sessionCookie(t.app, DEMO[who]);
-  const created = await send('admin', 'post', '/api/users', { email: CHEMIST3.email, fullName: 'Saoirse Dunmore', initials: 'SD', role: 'chemist', password: CHEMIST3.password });
+  const created = await send('admin', 'post', '/api/users', { email: CHEMIST3.email, fullName: 'Saoirse Dunmore', initials: 'SD', role: 'chemist', password: TEMPORARY_PASSWORD });
   expect(created.status, JSON.stringify(created.body)).toBe(201);
-  cookie.chemist3 = await sessionCookie(t.app, CHEMIST3.email, CHEMIST3.password);
+  cookie.chemist3 = await choosePassword(t.app, CHEMIST3.email, CHEMIST3.password); // the admin's password is temporary
   for (const who of ['chemist', 'chemist2', 'chemist3', 'technician', 'qa', 'admin'] as const) {
     const email = who === 'chemist3' ? CHEMIST3.email : DEMO[who];
     userId[who] = (await User.findOne({ where: { email } }))!.id;
@@ -288,9 +288,9 @@ describe('password at each signing and the lockout (REQUIREMENTS ES-04, ES-06, P
 
   it('when a chemist gets the signing password wrong five times, then the account is locked (423) like after failed sign-ins', async () => {
     const email = 'lockout.sign@harbourside.example';
-    const password = 'lockout-signing-pass';
-    expect((await send('admin', 'post', '/api/users', { email, fullName: 'Ola Brennan', initials: 'OB', role: 'chemist', password })).status).toBe(201);
-    const c = await sessionCookie(t.app, email, password);
+    const password = 'amber-flask-lockout-7';
+    expect((await send('admin', 'post', '/api/users', { email, fullName: 'Ola Brennan', initials: 'OB', role: 'chemist', password: TEMPORARY_PASSWORD })).status).toBe(201);
+    const c = await choosePassword(t.app, email, password);
     const p = await complete('chemist');
     const statuses: number[] = [];
     for (let i = 0; i < 5; i++) {
@@ -302,14 +302,15 @@ describe('password at each signing and the lockout (REQUIREMENTS ES-04, ES-06, P
     expect(u!.lockedAt).not.toBeNull();
     expect(await AuditEntry.count({ where: { action: 'account_locked', entityId: String(u!.id) } })).toBe(1);
     const r = await request(t.app).post(`/api/preparations/${p.identifier}/signatures`).set('Cookie', c).send({ meaning: 'discarded', reason: 'lockout check', password, acknowledgeResponsibility: true });
-    expect(r.status).toBe(423);
+    expect(r.status).toBe(401); // the lock ended every session of the account (migration 0016)
+    expect((await request(t.app).post('/api/auth/login').send({ email, password })).status).toBe(423);
   });
 
   it('when a user signs for the first time without acknowledging the statement, then 400 with the statement; the acknowledgement is stored once (ES-08)', async () => {
     const email = 'first.sign@harbourside.example';
-    const password = 'first-signature-pass';
-    expect((await send('admin', 'post', '/api/users', { email, fullName: 'Kit Farrow', initials: 'KF', role: 'chemist', password })).status).toBe(201);
-    const c = await sessionCookie(t.app, email, password);
+    const password = 'violet-burette-91';
+    expect((await send('admin', 'post', '/api/users', { email, fullName: 'Kit Farrow', initials: 'KF', role: 'chemist', password: TEMPORARY_PASSWORD })).status).toBe(201);
+    const c = await choosePassword(t.app, email, password);
     const p = await plan('chemist');
     const d0 = (await request(t.app).get(`/api/preparations/${p.identifier}`).set('Cookie', c)).body;
     expect(d0.canSign.acknowledgementRequired).toBe(true);

@@ -65,7 +65,7 @@ describe('POST /api/users', () => {
 
   it.each([
     ['email', { email: 'not-an-email' }, 'Enter a valid email address'],
-    ['password', { password: 'short' }, 'Use at least 10 characters'],
+    ['password', { password: 'short' }, 'Use at least 12 characters'],
     ['role', { role: 'superuser' }, 'Choose one of: chemist, technician, qa, admin'],
     ['initials', { initials: 'A1' }, 'Use 1 to 5 letters, e.g. MT'],
     ['fullName', { fullName: '   ' }, 'Enter the full name'],
@@ -89,7 +89,7 @@ describe('POST /api/users', () => {
     const res = await request(t.app)
       .post('/api/users')
       .set('Cookie', admin)
-      .send({ ...valid, email: 'sneaky@harbourside.example', active: false, lockedAt: '2020-01-01', passwordHash: 'x', id: 1 });
+      .send({ ...valid, email: 'sneaky@harbourside.example', fullName: 'Bo Sneaky', initials: 'BS', active: false, lockedAt: '2020-01-01', passwordHash: 'x', id: 1 });
     expect(res.status).toBe(201);
     expect(res.body.user.active).toBe(true);
     expect(res.body.user.locked).toBe(false);

@@ -25,6 +25,8 @@ export class AuditEntry extends Model<InferAttributes<AuditEntry>, InferCreation
   declare reason: string | null;
   declare prevHash: string;
   declare hash: string;
+  /** The session the entry was written in (migration 0016); null for older rows, anonymous events and jobs. Not hashed. */
+  declare sessionId: CreationOptional<string | null>;
 }
 
 export function initAuditEntry(sequelize: Sequelize): typeof AuditEntry {
@@ -41,6 +43,7 @@ export function initAuditEntry(sequelize: Sequelize): typeof AuditEntry {
       reason: optionalText(),
       prevHash: requiredText(),
       hash: requiredText(),
+      sessionId: optionalText(),
     },
     { sequelize, tableName: 'audit_entries', modelName: 'AuditEntry', underscored: true, timestamps: false },
   );

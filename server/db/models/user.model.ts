@@ -20,6 +20,8 @@ export class User extends Model<InferAttributes<User>, InferCreationAttributes<U
   declare failedLoginCount: CreationOptional<number>;
   declare lockedAt: CreationOptional<string | null>;
   declare lastLoginAt: CreationOptional<string | null>;
+  /** Set when an administrator chose the password (migration 0016): the person must choose their own first. */
+  declare mustChangePassword: CreationOptional<boolean>;
   declare createdAt: CreationOptional<string>;
   declare updatedAt: CreationOptional<string>;
 }
@@ -43,6 +45,7 @@ export function initUser(sequelize: Sequelize): typeof User {
       failedLoginCount: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 0 },
       lockedAt: optionalText(),
       lastLoginAt: optionalText(),
+      mustChangePassword: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       ...timestampAttributes(),
     },
     { sequelize, tableName: 'users', modelName: 'User', underscored: true, timestamps: false },

@@ -81,6 +81,22 @@ export async function sessionCookie(app: Express, email: string, password = DEMO
   return cookie!.split(';')[0]!;
 }
 
+/** A password an administrator sets for someone (new account, reset) is temporary until they choose their own. */
+export const TEMPORARY_PASSWORD = 'set-by-the-admin-2026';
+
+/**
+ * Signs in with the temporary password an administrator set, chooses `chosen` (POST /api/auth/password) and
+ * returns the new session cookie (the change ends every earlier session).
+ */
+export async function choosePassword(app: Express, email: string, chosen: string, temporary = TEMPORARY_PASSWORD): Promise<string> {
+  const first = await sessionCookie(app, email, temporary);
+  const res = await request(app).post('/api/auth/password').set('Cookie', first).send({ currentPassword: temporary, newPassword: chosen });
+  expect(res.status, `change password ${email}: ${JSON.stringify(res.body)}`).toBe(200);
+  const cookie = ([] as string[]).concat(res.headers['set-cookie'] ?? []).find((c) => c.startsWith('tarebook_session='));
+  expect(cookie).toBeDefined();
+  return cookie!.split(';')[0]!;
+}
+
 /** A supertest agent that keeps the session cookie. */
 export async function signedInAgent(app: Express, email: string, password = DEMO_PASSWORD) {
   const agent = request.agent(app);

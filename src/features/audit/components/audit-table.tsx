@@ -36,6 +36,11 @@ export function AuditTable({ entries, timeZone, caption }: { entries: AuditEntry
               <td className="px-4 py-2">
                 {e.actorName ?? <span className="text-ink-soft">(not signed in)</span>}
                 {e.actorId !== null ? <span className="block text-sm text-ink-soft">user #{e.actorId}</span> : null}
+                {e.sessionId ? (
+                  <span className="block text-sm text-ink-soft" title={`Session ${e.sessionId}`} data-testid="audit-session">
+                    session {e.sessionId.slice(0, 8)}…
+                  </span>
+                ) : null}
               </td>
               <td className="min-w-[8rem] px-4 py-2 font-semibold">{actionLabel(e.action)}</td>
               <td className="min-w-[10rem] px-4 py-2">

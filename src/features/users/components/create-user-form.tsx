@@ -69,7 +69,7 @@ export function CreateUserForm() {
           autoComplete="new-password"
           registration={form.register('password')}
           error={errors.password?.message}
-          hint={`At least ${PASSWORD_MIN_LENGTH} characters. Give it to the person directly, never by e-mail.`}
+          hint={`At least ${PASSWORD_MIN_LENGTH} characters, not their name or e-mail. It is temporary: they choose their own at first sign-in. Give it to the person directly, never by e-mail.`}
           className="md:col-span-2"
         />
       </div>

@@ -16,6 +16,11 @@ function StatusBadges({ user }: { user: User }) {
         <span className="rounded-full bg-slate-100 px-3 py-0.5 text-sm font-semibold text-ink-soft">Inactive</span>
       )}
       {user.locked ? <span className="rounded-full bg-bad-50 px-3 py-0.5 text-sm font-semibold text-bad-700">Locked</span> : null}
+      {user.mustChangePassword ? (
+        <span className="rounded-full bg-slate-100 px-3 py-0.5 text-sm font-semibold text-ink" data-testid="user-temporary-password">
+          Temporary password
+        </span>
+      ) : null}
     </span>
   );
 }
