@@ -429,9 +429,10 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
           </View>
           <View style={s.headerRow}>
             <Text style={s.small}>Prep sheet — standard solution preparation</Text>
-            <Text style={s.small}>{`Status: ${d.status}`}</Text>
+            <Text style={s.small}>{`Status: ${d.status === 'seal_broken' ? 'seal broken' : d.status}`}</Text>
           </View>
           {verified ? <Text style={s.verifiedBanner}>VERIFIED</Text> : <Text style={s.banner}>{UNVERIFIED_MARK}</Text>}
+          {d.sealBroken ? <Text style={s.banner}>{`SEAL BROKEN: this record no longer matches its signatures (${d.sealBroken.problems.join('; ')})`}</Text> : null}
         </View>
 
         <View style={s.footer} fixed>
