@@ -207,3 +207,24 @@ describe('tamper §1: entries and signatures (full check on the record)', () => 
     expect((await listItem(id)).status).toBe('seal_broken'); // the list finds the earlier full-check finding
   });
 });
+
+describe('the daily integrity run (§1 sweep, §4 anchor in the QA e-mail)', () => {
+  it('when it runs, then the chain head is appended to the anchor log and e-mailed to QA with the broken seals, and the chain check compares with it', async () => {
+    const { runDailyIntegrity } = await import('../../server/services/integrity-report.service.ts');
+    const { readAnchors, verifyAuditChain } = await import('../../server/services/audit.service.ts');
+    const before = readAnchors().length;
+    const r = await runDailyIntegrity(new Date('2026-12-05T06:05:00.000Z'));
+    expect(r.chain.ok).toBe(true);
+    expect(r.sealBroken.length).toBe(2); // the two records altered above
+    expect(readAnchors()).toHaveLength(before + 1);
+    expect(readAnchors().at(-1)).toEqual(r.anchor);
+    const raw = rawDb(t.dbPath);
+    const mails = await raw.all<{ to_address: string; subject: string; text_body?: string; body_text?: string }>("SELECT * FROM mail_queue WHERE kind = 'integrity_report'");
+    await raw.close();
+    expect(mails.map((m) => m.to_address)).toEqual([DEMO.qa]);
+    const body = JSON.stringify(mails[0]);
+    expect(body).toContain(`#${r.anchor!.id} ${r.anchor!.hash}`);
+    for (const id of r.sealBroken) expect(body).toContain(id);
+    expect((await verifyAuditChain()).anchor).toEqual({ id: r.anchor!.id, at: r.anchor!.at, hash: r.anchor!.hash });
+  });
+});
