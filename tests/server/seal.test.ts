@@ -228,3 +228,21 @@ describe('the daily integrity run (§1 sweep, §4 anchor in the QA e-mail)', () 
     expect((await verifyAuditChain()).anchor).toEqual({ id: r.anchor!.id, at: r.anchor!.at, hash: r.anchor!.hash });
   });
 });
+
+describe('signatures written before canonical version 2', () => {
+  it('when the signed content is version 1, then the row still checks, and a changed concentration_display is found by deriving it from the signed result', async () => {
+    const { Preparation } = await import('../../server/db/models/index.ts');
+    const { canonicalRecord, shownColumns } = await import('../../server/services/signatures.service.ts');
+    const { sealProblems } = await import('../../server/services/record-integrity.ts');
+    // the verified stock of the demo (its row was restored after the cases above; this check is pure)
+    const p = (await Preparation.findOne({ where: { status: 'verified', kind: 'stock' }, order: [['id', 'ASC']] }))!;
+    expect(p.result?.concentration.display).toBeTruthy();
+    const v1 = canonicalRecord(p, [], [], null, 1);
+    expect(JSON.parse(v1.canonical).shown).toBeUndefined();
+    const sig = { id: 1, meaning: p.status, recordVersion: p.version, recordHash: v1.hash } as never;
+    const input = () => ({ p, sigs: [sig], signed: { canonicalJson: v1.canonical } as never });
+    expect(sealProblems(input(), shownColumns)).toEqual([]);
+    p.concentrationDisplay = '1500.0 mg/L';
+    expect(sealProblems(input(), shownColumns)).toEqual(['concentration_display differs from the signed result']);
+  });
+});
