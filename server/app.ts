@@ -10,6 +10,7 @@ import express, { type Express, type RequestHandler } from 'express';
 import helmet from 'helmet';
 import type { Sequelize } from 'sequelize';
 import type { Config } from './config.ts';
+import { configureAuditChain } from './services/audit.service.ts';
 import { initModels, modelsBoundTo } from './db/models/index.ts';
 import { apiNotFound, errorMiddleware } from './errors/error-middleware.ts';
 import { sessionMiddleware } from './middleware/session.ts';
@@ -36,6 +37,7 @@ export function createApp({ sequelize: given, db, config, clientMiddleware, dist
   const sequelize = given ?? db;
   if (!sequelize) throw new Error('createApp needs { sequelize, config }');
   if (!modelsBoundTo(sequelize)) initModels(sequelize);
+  configureAuditChain(sequelize, { key: config.auditChainKey, anchorFile: config.auditAnchorFile });
 
   const app = express();
   app.disable('x-powered-by');

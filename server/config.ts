@@ -12,6 +12,10 @@ export interface Config {
   dataDir: string;
   production: boolean;
   sessionSecret: string;
+  /** Key of the audit chain's HMAC (AUDIT_CHAIN_KEY; outside production generated once into <dataDir>/audit-chain-key). */
+  auditChainKey: string;
+  /** Append-only log of chain heads (AUDIT_ANCHOR_FILE, default <dataDir>/audit-anchors.log). */
+  auditAnchorFile: string;
   viteMiddleware: boolean;
   /** Number of proxy hops to trust for X-Forwarded-For (TRUST_PROXY); 0 = none (STACK P10). */
   trustProxy: number;
@@ -69,6 +73,24 @@ function devSessionSecret(dataDir: string): string {
   return secret;
 }
 
+export const MIN_CHAIN_KEY_LENGTH = 32;
+
+/** Reads `<dataDir>/audit-chain-key`, creating it with 48 random bytes (hex) the first time (outside production). */
+export function devChainKey(dataDir: string): string {
+  const file = join(dataDir, 'audit-chain-key');
+  if (existsSync(file)) {
+    const stored = readFileSync(file, 'utf8').trim();
+    if (stored.length >= MIN_CHAIN_KEY_LENGTH) return stored;
+  }
+  mkdirSync(dataDir, { recursive: true });
+  const key = randomBytes(48).toString('hex');
+  writeFileSync(file, key + '\n', { mode: 0o600 });
+  return key;
+}
+
+/** The default anchor log beside the database (audit.service.ts writeAnchor). */
+export const defaultAnchorFile = (dataDir: string) => join(dataDir, 'audit-anchors.log');
+
 export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
   const production = env.NODE_ENV === 'production';
   const dbPath = resolve(env.TAREBOOK_DB || './data/tarebook.sqlite');
@@ -88,6 +110,18 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     sessionSecret = devSessionSecret(dataDir);
   }
 
+  let auditChainKey = env.AUDIT_CHAIN_KEY ?? '';
+  if (auditChainKey) {
+    if (auditChainKey.length < MIN_CHAIN_KEY_LENGTH) throw new ConfigError(`AUDIT_CHAIN_KEY must be at least ${MIN_CHAIN_KEY_LENGTH} characters long`);
+  } else if (production) {
+    throw new ConfigError(
+      'AUDIT_CHAIN_KEY is not set. In production set it to a random string of at least 32 characters, kept outside the database ' +
+        '(the audit chain is keyed with it), e.g. the output of: node -e "console.log(require(\'crypto\').randomBytes(48).toString(\'hex\'))"',
+    );
+  } else {
+    auditChainKey = devChainKey(dataDir);
+  }
+
   return {
     port: intFrom(env, 'PORT', 3000),
     host: env.HOST || '0.0.0.0',
@@ -95,6 +129,8 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     dataDir,
     production,
     sessionSecret,
+    auditChainKey,
+    auditAnchorFile: env.AUDIT_ANCHOR_FILE ? resolve(env.AUDIT_ANCHOR_FILE) : defaultAnchorFile(dataDir),
     viteMiddleware: env.VITE_MIDDLEWARE === '1',
     trustProxy: env.TRUST_PROXY && /^\d+$/.test(env.TRUST_PROXY) ? Number(env.TRUST_PROXY) : env.TRUST_PROXY ? 1 : 0,
     loginRateLimit: intFrom(env, 'LOGIN_RATE_LIMIT', 30, 1),

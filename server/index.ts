@@ -12,6 +12,7 @@ import type { RequestHandler } from 'express';
 import { createApp, DIST_DIR } from './app.ts';
 import { ConfigError, loadConfig, type Config } from './config.ts';
 import { migrateUp } from './db/migrate.ts';
+import { configureAuditChain, ensureKeyedChain, writeAnchor } from './services/audit.service.ts';
 import { initModels, User } from './db/models/index.ts';
 import { openDatabase } from './db/sequelize.ts';
 import { startFakeSmtpServer, type FakeSmtpServer } from './mail/fake-smtp.ts';
@@ -50,12 +51,17 @@ async function main(): Promise<void> {
   const applied = await migrateUp(sequelize);
   if (applied.length) console.log(`Applied migrations: ${applied.map((m) => m.name).join(', ')}`);
   initModels(sequelize);
+  configureAuditChain(sequelize, { key: config.auditChainKey, anchorFile: config.auditAnchorFile });
 
   if (!config.production && (await User.count()) === 0) {
     const { seedDemoLab } = await import('../seed/seed-demo-lab.ts');
     const result = await seedDemoLab(sequelize);
     if (result.seeded) console.log('Seeded the demo lab (Harbourside Water Laboratory); password for all demo accounts: bench-demo-2026');
   }
+
+  await ensureKeyedChain(); // a database with unkeyed entries gets its switch entry now
+  const anchor = await writeAnchor(); // the chain head, outside the database, at every start (and daily)
+  if (anchor) console.log(`Audit chain head #${anchor.id} anchored in ${config.auditAnchorFile}`);
 
   const httpServer: Server = createServer();
   let vite: { middlewares: RequestHandler; close(): Promise<void> } | undefined;

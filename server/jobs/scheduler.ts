@@ -1,5 +1,5 @@
 /**
- * In-process scheduler (node-cron): the daily expiry digest at 06:00 in the lab's time zone
+ * In-process scheduler (node-cron): the daily expiry digest at 06:00 and the integrity report at 06:05 in the lab's time zone
  * (settings.timeZone, read at start-up; a changed zone applies after a restart). Started by server/index.ts
  * after the server listens; never in tests unless a test starts it. A failed run is logged, never thrown.
  */
@@ -7,9 +7,12 @@ import cron, { type ScheduledTask } from 'node-cron';
 import type { Mailer } from '../mail/mailer.ts';
 import { runExpiryDigest } from '../services/expiry-digest.service.ts';
 import { getSettings } from '../services/settings.service.ts';
+import { runDailyIntegrity } from '../services/integrity-report.service.ts';
 
 /** Minute, hour, day of month, month, day of week: every day at 06:00. */
 export const EXPIRY_DIGEST_CRON = '0 6 * * *';
+/** Every day at 06:05: the seal sweep, the chain check, the chain head anchored and e-mailed to QA (integrity-report.service.ts). */
+export const INTEGRITY_CRON = '5 6 * * *';
 
 export interface SchedulerOptions {
   publicUrl: () => string;
@@ -37,6 +40,18 @@ export async function startScheduler(opts: SchedulerOptions): Promise<Scheduler>
         }
       },
       { timezone: timeZone, name: 'expiry-digest', noOverlap: true },
+    ),
+    cron.schedule(
+      INTEGRITY_CRON,
+      async () => {
+        try {
+          const r = await runDailyIntegrity(new Date(), { mailer: opts.mailer });
+          log(`Integrity report: chain ${r.chain.ok ? 'intact' : 'BROKEN'}, head #${r.anchor?.id ?? 0} anchored, ${r.sealBroken.length} seal(s) broken, ${r.sent} e-mail(s) queued`);
+        } catch (err) {
+          log(`Integrity report failed: ${(err as Error).message}`);
+        }
+      },
+      { timezone: timeZone, name: 'integrity-report', noOverlap: true },
     ),
   ];
   return {

@@ -431,10 +431,11 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
           </View>
           <View style={s.headerRow}>
             <Text style={s.small}>Prep sheet — standard solution preparation</Text>
-            <Text style={s.small}>{`Status: ${d.status}`}</Text>
+            <Text style={s.small}>{`Status: ${d.status === 'seal_broken' ? 'seal broken' : d.status}`}</Text>
           </View>
           {/* a preview carries its mark on the same line, so the layout of the page is the printed one */}
           {verified ? <Text style={s.verifiedBanner}>{data.preview ? `VERIFIED · ${PREVIEW_MARK}` : 'VERIFIED'}</Text> : <Text style={s.banner}>{data.preview ? `${UNVERIFIED_MARK} · ${PREVIEW_MARK}` : UNVERIFIED_MARK}</Text>}
+          {d.sealBroken ? <Text style={s.banner}>{`SEAL BROKEN: this record no longer matches its signatures (${d.sealBroken.problems.join('; ')})`}</Text> : null}
         </View>
 
         <View style={s.footer} fixed>

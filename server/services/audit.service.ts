@@ -21,9 +21,34 @@
  * verifyAuditChain walks the table in id order and stops at the first break: a changed row fails its own
  * hash; a deleted row leaves a gap in ids; an inserted or re-linked row fails the previous-hash link.
  * Triggers (migration 0003-audit) refuse UPDATE and DELETE on the table.
+ *
+ * KEYED CHAIN (chain version 2). A plain SHA-256 chain can be recomputed by whoever holds the file, so every
+ * entry is now hashed with a key that is not in the database:
+ *   hash = HMAC-SHA-256 hex( key, prev_hash + "\n" + canonicalJson(content) )   (RFC 2104, FIPS 198-1)
+ * The key is AUDIT_CHAIN_KEY in production (required, ≥ 32 characters) and, outside production, a random key
+ * generated once into <data folder>/audit-chain-key like the session secret (server/config.ts). Entries written
+ * before the key existed keep their SHA-256 hashes: the first entry written with the key on such a database is
+ * an "audit_chain_keyed" entry (entity audit_trail), itself keyed, whose prev_hash seals the whole unkeyed
+ * prefix. The check accepts unkeyed entries only before that switch entry; a database whose first entry is
+ * keyed (every new one) never holds an unkeyed entry. A chain with unkeyed entries and no switch is "not keyed".
+ *
+ * ANCHORS. The chain head ({ at, id, hash }) is appended at least daily (the daily job and each start) to a
+ * separate append-only log file (AUDIT_ANCHOR_FILE, default <data folder>/audit-anchors.log) and sent in the
+ * daily QA e-mail. verifyAuditChain compares with the latest anchor: the entry it names must still exist with
+ * that hash, so deleting the newest entries (even with sqlite_sequence rolled back) is found back to the anchor.
+ *
+ * What someone holding the database file but not the key can and cannot do: they can read every entry, and
+ * they can delete or alter rows (dropping the triggers), but they cannot write an entry, a changed entry or a
+ * re-linked tail that checks, because each hash needs the key; they cannot hide a deletion of entries up to the
+ * latest anchor, which lives outside the file; they can delete entries written after the latest anchor (at most
+ * about a day) with the sequence rolled back, and that is not detectable from the file alone — the next anchor
+ * and the QA e-mail show the head as it was; and they can replace the whole file with an older copy, which the
+ * anchors written since then also expose.
  */
-import { createHash } from 'node:crypto';
-import { col, fn, Op, QueryTypes, where as sequelizeWhere, type Transaction, type WhereOptions } from 'sequelize';
+import { createHash, createHmac, randomBytes } from 'node:crypto';
+import { appendFileSync, existsSync, mkdirSync, readFileSync } from 'node:fs';
+import { dirname } from 'node:path';
+import { col, fn, Op, QueryTypes, where as sequelizeWhere, type Sequelize, type Transaction, type WhereOptions } from 'sequelize';
 import type {
   AuditChange,
   AuditEntryDto,
@@ -35,6 +60,7 @@ import type {
 import { AuditEntry } from '../db/models/index.ts';
 import { canonicalJson, writeTransaction } from '../db/transaction.ts';
 import { currentSessionId } from './request-context.ts';
+import { defaultAnchorFile, devChainKey } from '../config.ts';
 
 export const GENESIS_HASH = '0'.repeat(64);
 
@@ -62,11 +88,56 @@ interface HashedContent {
   reason: string | null;
 }
 
+/** The unkeyed hash of chain version 1 (entries written before the chain key existed). */
 export function entryHash(prevHash: string, content: HashedContent): string {
   return createHash('sha256')
     .update(`${prevHash}\n${canonicalJson(content)}`, 'utf8')
     .digest('hex');
 }
+
+/** The keyed hash of chain version 2: HMAC-SHA-256 with the chain key. */
+export function keyedEntryHash(key: string | Buffer, prevHash: string, content: HashedContent): string {
+  return createHmac('sha256', key)
+    .update(`${prevHash}\n${canonicalJson(content)}`, 'utf8')
+    .digest('hex');
+}
+
+export const CHAIN_KEYED_ACTION = 'audit_chain_keyed';
+interface ChainSetup {
+  key: string;
+  anchorFile: string | null;
+  /** true once the chain is known to be keyed (fresh, or the switch entry exists) */
+  keyed?: boolean;
+}
+
+const setups = new WeakMap<Sequelize, ChainSetup>();
+
+/** Called at start-up (createApp, server/index.ts) with the configured key and anchor file. */
+export function configureAuditChain(sequelize: Sequelize, opts: { key: string; anchorFile: string | null }): void {
+  const existing = setups.get(sequelize);
+  if (existing && existing.key === opts.key) {
+    existing.anchorFile = opts.anchorFile;
+    return;
+  }
+  setups.set(sequelize, { key: opts.key, anchorFile: opts.anchorFile });
+}
+
+/**
+ * The chain setup of this database. Without configureAuditChain (a seed or a test before createApp), outside
+ * production the key comes from the data folder of the SQLite file, as loadConfig would read it.
+ */
+function chainSetup(sequelize: Sequelize): ChainSetup {
+  const known = setups.get(sequelize);
+  if (known) return known;
+  if (process.env.NODE_ENV === 'production') throw new Error('The audit chain key is not configured (AUDIT_CHAIN_KEY)');
+  const storage = String((sequelize as unknown as { options: { storage?: string } }).options.storage ?? ':memory:');
+  const setup: ChainSetup = storage === ':memory:' || storage === ''
+    ? { key: randomBytes(48).toString('hex'), anchorFile: null }
+    : { key: devChainKey(dirname(storage)), anchorFile: defaultAnchorFile(dirname(storage)) };
+  setups.set(sequelize, setup);
+  return setup;
+}
+
 
 function requireName(value: unknown, what: string): string {
   if (typeof value !== 'string' || value.trim() === '') throw new Error(`recordAudit: ${what} must be a non-empty string`);
@@ -87,7 +158,56 @@ export async function recordAudit(input: AuditInput, transaction: Transaction): 
     "SELECT seq FROM sqlite_sequence WHERE name = 'audit_entries'",
     { type: QueryTypes.SELECT, transaction },
   );
-  const id = Math.max(Number(last?.id ?? 0), Number(seq?.seq ?? 0)) + 1;
+  const head = await switchToKeyed(sequelize, last ?? null, Number(seq?.seq ?? 0), transaction);
+  await insertEntry(chainSetup(sequelize).key, head.last, head.seq, { ...input, action, entity }, transaction);
+}
+
+/**
+ * On a database that holds unkeyed entries and no switch yet, writes the switch entry (keyed) and returns the new
+ * head; otherwise returns the head as given. The "keyed" answer is cached once the transaction commits.
+ */
+async function switchToKeyed(sequelize: Sequelize, last: { id: number; hash: string } | null, seq: number, transaction: Transaction): Promise<{ last: { id: number; hash: string } | null; seq: number }> {
+  const setup = chainSetup(sequelize);
+  if (setup.keyed) return { last, seq };
+  transaction.afterCommit(() => {
+    setup.keyed = true;
+  });
+  if (!last || (await chainIsKeyed(sequelize, setup.key, transaction))) return { last, seq };
+  await insertEntry(setup.key, last, seq, {
+    actor: null,
+    action: CHAIN_KEYED_ACTION,
+    entity: 'audit_trail',
+    entityId: null,
+    changes: [{ field: 'chainVersion', oldValue: 1, newValue: 2 }],
+    reason: 'Entries from here on are hashed with HMAC-SHA-256 and the chain key; the earlier entries keep their SHA-256 hashes and are sealed by this entry',
+  }, transaction);
+  const [head] = await sequelize.query<{ id: number; hash: string }>('SELECT id, hash FROM audit_entries ORDER BY id DESC LIMIT 1', { type: QueryTypes.SELECT, transaction });
+  return { last: head ?? null, seq: Number(head?.id ?? seq) };
+}
+
+/** At start-up: a database with unkeyed entries gets its switch entry now (nothing else is written). */
+export async function ensureKeyedChain(): Promise<void> {
+  const sequelize = AuditEntry.sequelize!;
+  if (chainSetup(sequelize).keyed) return;
+  await writeTransaction(async (transaction) => {
+    const [last] = await sequelize.query<{ id: number; hash: string }>('SELECT id, hash FROM audit_entries ORDER BY id DESC LIMIT 1', { type: QueryTypes.SELECT, transaction });
+    const [seq] = await sequelize.query<{ seq: number }>("SELECT seq FROM sqlite_sequence WHERE name = 'audit_entries'", { type: QueryTypes.SELECT, transaction });
+    await switchToKeyed(sequelize, last ?? null, Number(seq?.seq ?? 0), transaction);
+  });
+}
+
+/** Whether the chain is keyed already: its first entry is keyed, or the switch entry exists. */
+async function chainIsKeyed(sequelize: Sequelize, key: string, transaction?: Transaction): Promise<boolean> {
+  const [sw] = await sequelize.query<{ id: number }>(`SELECT id FROM audit_entries WHERE action = '${CHAIN_KEYED_ACTION}' AND entity = 'audit_trail' LIMIT 1`, { type: QueryTypes.SELECT, transaction });
+  if (sw) return true;
+  const [first] = await sequelize.query<RawRow>('SELECT * FROM audit_entries ORDER BY id ASC LIMIT 1', { type: QueryTypes.SELECT, transaction });
+  return !first || keyedEntryHash(key, first.prev_hash, contentOf(first)) === first.hash;
+}
+
+async function insertEntry(key: string, last: { id: number; hash: string } | null, seq: number, input: AuditInput, transaction: Transaction): Promise<void> {
+  const action = input.action;
+  const entity = input.entity;
+  const id = Math.max(Number(last?.id ?? 0), Number(seq ?? 0)) + 1;
   const prevHash = last?.hash ?? GENESIS_HASH;
 
   const changes = (input.changes ?? []).map((c) => ({
@@ -113,7 +233,7 @@ export async function recordAudit(input: AuditInput, transaction: Transaction): 
       ...content,
       changes: changesJson,
       prevHash,
-      hash: entryHash(prevHash, content),
+      hash: keyedEntryHash(key, prevHash, content),
       sessionId: input.sessionId !== undefined ? input.sessionId : currentSessionId(),
     },
     { transaction },
@@ -136,11 +256,80 @@ interface RawRow {
 
 const VERIFY_BATCH = 500;
 
-/** Walks the whole trail in id order; stops at the first break. `checked` counts the entries read. */
+function contentOf(row: RawRow): HashedContent {
+  return {
+    id: Number(row.id),
+    occurredAt: row.occurred_at,
+    actorId: row.actor_id === null ? null : Number(row.actor_id),
+    actorName: row.actor_name,
+    action: row.action,
+    entity: row.entity,
+    entityId: row.entity_id,
+    changes: JSON.parse(row.changes) as unknown,
+    reason: row.reason,
+  };
+}
+
+// ---------------------------------------------------------------------------------------------- anchors
+
+export interface ChainAnchor {
+  at: string;
+  id: number;
+  hash: string;
+}
+
+/** The anchors written so far, oldest first (an unreadable line is skipped). */
+export function readAnchors(sequelize: Sequelize = AuditEntry.sequelize!): ChainAnchor[] {
+  const file = chainSetup(sequelize).anchorFile;
+  if (!file || !existsSync(file)) return [];
+  const out: ChainAnchor[] = [];
+  for (const line of readFileSync(file, 'utf8').split('\n')) {
+    if (!line.trim()) continue;
+    try {
+      const a = JSON.parse(line) as ChainAnchor;
+      if (Number.isInteger(a.id) && a.id > 0 && /^[0-9a-f]{64}$/.test(a.hash)) out.push({ at: String(a.at), id: a.id, hash: a.hash });
+    } catch {
+      /* a damaged line is not an anchor */
+    }
+  }
+  return out;
+}
+
+/** The chain head now ({ id, hash }), or null while the trail is empty. */
+export async function chainHead(): Promise<{ id: number; hash: string } | null> {
+  const [last] = await AuditEntry.sequelize!.query<{ id: number; hash: string }>('SELECT id, hash FROM audit_entries ORDER BY id DESC LIMIT 1', { type: QueryTypes.SELECT });
+  return last ? { id: Number(last.id), hash: last.hash } : null;
+}
+
+/**
+ * Appends the chain head to the anchor log (opened for appending only; one JSON line per anchor) and returns it.
+ * Null when the trail is empty or no anchor file is configured.
+ */
+export async function writeAnchor(now = new Date()): Promise<ChainAnchor | null> {
+  const sequelize = AuditEntry.sequelize!;
+  const file = chainSetup(sequelize).anchorFile;
+  const head = await chainHead();
+  if (!file || !head) return null;
+  const anchor: ChainAnchor = { at: now.toISOString(), id: head.id, hash: head.hash };
+  mkdirSync(dirname(file), { recursive: true });
+  appendFileSync(file, JSON.stringify(anchor) + '\n', { flag: 'a', mode: 0o600 });
+  return anchor;
+}
+
+/**
+ * Walks the whole trail in id order; stops at the first break. `checked` counts the entries read. Unkeyed
+ * (SHA-256) entries are accepted only before the switch entry; the latest anchor must still match.
+ */
 export async function verifyAuditChain(): Promise<AuditVerifyResult> {
   const sequelize = AuditEntry.sequelize!;
+  const { key } = chainSetup(sequelize);
+  const anchors = readAnchors(sequelize);
+  const anchor = anchors.at(-1);
   let checked = 0;
   let prev: { id: number; hash: string } | null = null;
+  let mode: 'start' | 'unkeyed' | 'keyed' = 'start';
+  let anchorSeen = false;
+  const withAnchor = (r: AuditVerifyResult): AuditVerifyResult => (anchor ? { ...r, anchor: { id: anchor.id, at: anchor.at, hash: anchor.hash } } : r);
   for (;;) {
     const rows: RawRow[] = await sequelize.query<RawRow>(
       `SELECT id, occurred_at, actor_id, actor_name, action, entity, entity_id, changes, reason, prev_hash, hash
@@ -151,32 +340,39 @@ export async function verifyAuditChain(): Promise<AuditVerifyResult> {
       checked += 1;
       const id: number = Number(row.id);
       const expectedId: number = (prev?.id ?? 0) + 1;
-      if (id !== expectedId) return { ok: false, checked, firstBroken: { id, reason: 'gap in ids' } };
+      if (id !== expectedId) return withAnchor({ ok: false, checked, firstBroken: { id, reason: 'gap in ids' } });
       if (row.prev_hash !== (prev?.hash ?? GENESIS_HASH)) {
-        return { ok: false, checked, firstBroken: { id, reason: 'previous hash mismatch' } };
+        return withAnchor({ ok: false, checked, firstBroken: { id, reason: 'previous hash mismatch' } });
       }
-      let changes: unknown;
+      let content: HashedContent;
       try {
-        changes = JSON.parse(row.changes);
+        content = contentOf(row);
       } catch {
-        return { ok: false, checked, firstBroken: { id, reason: 'hash mismatch' } };
+        return withAnchor({ ok: false, checked, firstBroken: { id, reason: 'hash mismatch' } });
       }
-      const recomputed = entryHash(row.prev_hash, {
-        id,
-        occurredAt: row.occurred_at,
-        actorId: row.actor_id === null ? null : Number(row.actor_id),
-        actorName: row.actor_name,
-        action: row.action,
-        entity: row.entity,
-        entityId: row.entity_id,
-        changes,
-        reason: row.reason,
-      });
-      if (recomputed !== row.hash) return { ok: false, checked, firstBroken: { id, reason: 'hash mismatch' } };
+      const keyedOk = keyedEntryHash(key, row.prev_hash, content) === row.hash;
+      const isSwitch = row.action === CHAIN_KEYED_ACTION && row.entity === 'audit_trail';
+      if (mode === 'keyed' || (mode === 'unkeyed' && isSwitch)) {
+        if (!keyedOk) return withAnchor({ ok: false, checked, firstBroken: { id, reason: 'hash mismatch' } });
+        mode = 'keyed';
+      } else if (mode === 'start' && keyedOk) {
+        mode = 'keyed';
+      } else if (entryHash(row.prev_hash, content) === row.hash && !isSwitch) {
+        mode = 'unkeyed'; // written before the chain key existed
+      } else {
+        return withAnchor({ ok: false, checked, firstBroken: { id, reason: 'hash mismatch' } });
+      }
+      if (anchor && id === anchor.id) {
+        if (row.hash !== anchor.hash) return withAnchor({ ok: false, checked, firstBroken: { id, reason: 'anchor mismatch' } });
+        anchorSeen = true;
+      }
       prev = { id, hash: row.hash };
     }
     if (rows.length < VERIFY_BATCH) break;
   }
+  if (mode === 'unkeyed') return withAnchor({ ok: false, checked, firstBroken: { id: prev!.id, reason: 'not keyed' } });
+  // The newest entries were deleted back past the latest anchor (the anchor lives outside the database file).
+  if (anchor && !anchorSeen) return withAnchor({ ok: false, checked, firstBroken: { id: (prev?.id ?? 0) + 1, reason: 'anchor mismatch' } });
   // The newest entries were deleted: sqlite_sequence still remembers the highest id ever written.
   const [seq] = await sequelize.query<{ seq: number }>(
     "SELECT seq FROM sqlite_sequence WHERE name = 'audit_entries'",
@@ -184,9 +380,9 @@ export async function verifyAuditChain(): Promise<AuditVerifyResult> {
   );
   const highest = Number(seq?.seq ?? 0);
   if (highest > (prev?.id ?? 0)) {
-    return { ok: false, checked, firstBroken: { id: (prev?.id ?? 0) + 1, reason: 'gap in ids' } };
+    return withAnchor({ ok: false, checked, firstBroken: { id: (prev?.id ?? 0) + 1, reason: 'gap in ids' } });
   }
-  return { ok: true, checked };
+  return withAnchor({ ok: true, checked });
 }
 
 /** Verifies the chain, then records that the check was run (and its result) as an audit entry. */

@@ -36,7 +36,8 @@ import { CALC_VERSION, computeResult, flaskVolumeUncertainty, planNumbers, readi
 import { hazardsFor } from './preparation-hazards.ts';
 import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from './preparation-snapshots.ts';
 import { getSettings } from './settings.service.ts';
-import { checkChange, recordAmendment, signatureView } from './signatures.service.ts';
+import { checkChange, recordAmendment, shownColumns, signatureView } from './signatures.service.ts';
+import { sealStates, showSealBroken } from './record-integrity.ts';
 import { dataEntryMode } from './preparation-status.ts';
 import { shownStatus } from '../../shared/schemas/expiry.ts';
 import { expirySection, statusWhere } from './expiry-extension.service.ts';
@@ -500,7 +501,8 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
     madeUp.add(r.preparationId);
   }
   const users = await usersById(rows.map((r) => r.createdBy));
-  return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today)), total: count, page: q.page, pageSize: q.pageSize };
+  const sealBroken = await sealStates(rows, shownColumns); // signed rows whose shown data differ from what was signed (record-integrity.ts)
+  return { items: rows.map((p) => showSealBroken(summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today), sealBroken.get(p.id))), total: count, page: q.page, pageSize: q.pageSize };
 }
 
 // ------------------------------------------------------------------ recomputation

@@ -191,6 +191,10 @@ function printDto(p: LabelPrint, identifier: string): LabelPrintDto {
 export async function createLabelPrint(key: string, input: LabelPrintInput, actor: Actor): Promise<LabelPrintCreated> {
   const [detail, settings, template] = await Promise.all([getPreparation(key), getSettings(), activeTemplate(input.templateId)]);
   const today = labDay(new Date().toISOString(), settings.timeZone);
+  if (detail.sealBroken) {
+    // a signed record whose data no longer match its signatures (record-integrity.ts): no label may carry its numbers
+    throw new AppError('seal_broken', 409, `Labels cannot be printed for ${detail.identifier}: it no longer matches its signatures (seal broken); QA must investigate`, { fields: { preparation: detail.sealBroken.problems.join('; ') } });
+  }
   // the date first: a live record past its expiry is shown as 'expired' (expiry-extension.service), say when
   if (detail.expiry.expiresOn < today) {
     throw AppError.conflict(`Labels cannot be printed for ${detail.identifier}: it expired on ${detail.expiry.expiresOn}`);

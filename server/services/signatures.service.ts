@@ -37,6 +37,17 @@
  * A gravimetric dilution hashes, instead of aliquots, gravimetricReadings (every readings record) and its stored
  * dilutionResult (gravimetricHashFields); it is complete for "prepared" with current readings and a result.
  * Status, status history and the signatures themselves are not part of it (signing does not change the record).
+ *
+ * CANONICAL VERSION 2 (every signature written from now on): the fields above plus canonicalVersion: 2 and
+ * `shown`, the preparation columns a screen, PDF, label or export shows that are not already among them
+ * (shownColumns below): analyte_formula, target_value, target_unit, volume_value, volume_unit, material_id,
+ * balance_id, flask_id, kind, created_on, created_by, created_at, concentration_display and dilution_result.
+ * With the fields above, every stored column that is read out is signed; the only preparation columns left out
+ * are status (checked against the signatures instead: record-integrity.ts), updated_at (bookkeeping, shown
+ * nowhere), and pre_extension_* with the current expires_on/expiry_reason after a QA extension (checked
+ * against the append-only expiry_extensions row). A version-1 signature (written before) keeps checking against
+ * the version-1 record (recordForHash(…, 1)); for those the shown columns are checked by deriving them from the
+ * signed data where they can be (record-integrity.ts sealProblems).
  */
 import { createHash } from 'node:crypto';
 import type { Transaction } from 'sequelize';
@@ -83,6 +94,7 @@ import { PASSWORD_CHANGE_REQUIRED } from '../../shared/schemas/auth.ts';
 import { activeAliquot, dilutionResultOf, isDilutionKind, lineageRow } from './lineage-view.ts';
 import { mixCompleteness, mixEntriesOf, mixHashFields, mixPlanOf, type MixEntries } from './mix-view.ts';
 import { getSettings } from './settings.service.ts';
+import { fullSealCheck, SEAL_BROKEN, type SealBroken } from './record-integrity.ts';
 import { activeReadings, gravimetricResultOf, isGravimetricPlan, readingsOf } from './gravimetric-calc.ts';
 
 export interface Signer {
@@ -136,8 +148,31 @@ export interface DilutionEntries {
   gravimetricReadings?: GravimetricReading[];
 }
 
-export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): Record<string, unknown> {
+/** The canonical record version new signatures sign (see the header). */
+export const CANONICAL_VERSION = 2;
+export type CanonicalVersion = 1 | 2;
+
+/** The preparation columns shown to people that canonical version 2 adds to the record (see the header). */
+export function shownColumns(p: Preparation): Record<string, unknown> {
+  return {
+    analyteFormula: p.analyteFormula,
+    target: { value: p.targetValue, unit: p.targetUnit },
+    volume: { value: p.volumeValue, unit: p.volumeUnit },
+    materialId: p.materialId,
+    balanceId: p.balanceId,
+    flaskId: p.flaskId ?? null,
+    kind: (p.get('kind') as string | null | undefined) ?? 'stock',
+    createdOn: p.createdOn,
+    createdBy: p.createdBy,
+    createdAt: p.createdAt,
+    concentrationDisplay: p.concentrationDisplay ?? null,
+    dilutionResult: (p.get('dilutionResult') as unknown) ?? null,
+  };
+}
+
+export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null, canonicalVersion: CanonicalVersion = CANONICAL_VERSION): Record<string, unknown> {
   const base: Record<string, unknown> = {
+    ...(canonicalVersion === 2 ? { canonicalVersion: 2, shown: shownColumns(p) } : {}),
     preparationId: p.id,
     identifier: p.identifier,
     version: p.version,
@@ -232,8 +267,8 @@ function gravimetricHashFields(readings: GravimetricReading[], result: unknown):
   };
 }
 
-export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null): { canonical: string; hash: string } {
-  const canonical = canonicalJson(recordForHash(p, weighings, makeUps, dilution));
+export function canonicalRecord(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null, canonicalVersion: CanonicalVersion = CANONICAL_VERSION): { canonical: string; hash: string } {
+  const canonical = canonicalJson(recordForHash(p, weighings, makeUps, dilution, canonicalVersion));
   return { canonical, hash: sha256(canonical) };
 }
 
@@ -264,11 +299,11 @@ async function entriesOf(p: Preparation, transaction?: Transaction) {
 }
 
 /** The canonical JSON and hash of the record as it is now. */
-export async function currentRecordHash(preparationId: number, transaction?: Transaction): Promise<{ canonical: string; hash: string; version: number }> {
+export async function currentRecordHash(preparationId: number, transaction?: Transaction): Promise<{ canonical: string; hash: string; version: number; hashV1: string }> {
   const p = await Preparation.findByPk(preparationId, { transaction });
   if (!p) throw AppError.notFound(`Preparation ${preparationId}`);
   const { weighings, makeUps, dilution } = await entriesOf(p, transaction);
-  return { ...canonicalRecord(p, weighings, makeUps, dilution), version: p.version };
+  return { ...canonicalRecord(p, weighings, makeUps, dilution), version: p.version, hashV1: canonicalRecord(p, weighings, makeUps, dilution, 1).hash };
 }
 
 export async function storeVersion(p: Preparation, canonical: string, hash: string, at: string, transaction: Transaction) {
@@ -303,7 +338,7 @@ export async function verifySignatures(preparationId: number): Promise<Signature
       const signed = JSON.parse(rv.canonicalJson) as { preparationId?: number; version?: number };
       if (signed.preparationId !== preparationId) problem = `the signed content belongs to preparation ${signed.preparationId}`;
       else if (signed.version !== s.recordVersion) problem = `the signed content is version ${signed.version}, not ${s.recordVersion}`;
-      else if (s.recordVersion === now.version && s.recordHash !== now.hash) problem = `the record changed without a new version since it was signed at version ${s.recordVersion}`;
+      else if (s.recordVersion === now.version && s.recordHash !== now.hash && s.recordHash !== now.hashV1) problem = `the record changed without a new version since it was signed at version ${s.recordVersion}`;
     }
     out.push(problem ? { ...base, ok: false, problem } : { ...base, ok: true });
   }
@@ -319,10 +354,19 @@ interface State {
   /** set for a dilution or series level; null for a stock */
   dilution: DilutionEntries | null;
   sigs: Signature[];
+  /** the hash of the record as it is now (canonical version 2) */
   hash: string;
+  /** the same under canonical version 1, for signatures written before version 2 (computed when asked) */
+  hashV1: () => string;
 }
 
-const isValid = (s: Signature, st: Pick<State, 'p' | 'hash'>) => s.recordVersion === st.p.version && s.recordHash === st.hash;
+/** A signature is valid while it names the current version and that version's hash, under the canonical version it was signed in. */
+const isValid = (s: Signature, st: Pick<State, 'p' | 'hash' | 'hashV1'>) => s.recordVersion === st.p.version && (s.recordHash === st.hash || s.recordHash === st.hashV1());
+
+function stateOf(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution: DilutionEntries | null, sigs: Signature[]): State {
+  let v1: string | undefined;
+  return { p, weighings, makeUps, dilution, sigs, hash: canonicalRecord(p, weighings, makeUps, dilution).hash, hashV1: () => (v1 ??= canonicalRecord(p, weighings, makeUps, dilution, 1).hash) };
+}
 
 function activeWeighing(weighings: Weighing[]): Weighing | undefined {
   const superseded = new Set(weighings.map((w) => w.supersedesId).filter((x): x is number => x !== null));
@@ -439,10 +483,10 @@ function refusal(st: State, meaning: SignatureInput['meaning'], user: { id: numb
 
 async function loadState(p: Preparation, transaction?: Transaction): Promise<State> {
   const [{ weighings, makeUps, dilution }, sigs] = await Promise.all([entriesOf(p, transaction), Signature.findAll({ where: { preparationId: p.id }, order: [['id', 'ASC']], transaction })]);
-  return { p, weighings, makeUps, dilution, sigs, hash: canonicalRecord(p, weighings, makeUps, dilution).hash };
+  return stateOf(p, weighings, makeUps, dilution, sigs);
 }
 
-function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash'>): SignatureDto {
+function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash' | 'hashV1'>): SignatureDto {
   const dto: SignatureDto = {
     id: s.id,
     meaning: s.meaning,
@@ -459,7 +503,9 @@ function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash'>): SignatureDto
   return dto;
 }
 
-type SignatureView = Pick<PreparationDetail, 'signatures' | 'verificationChecklist' | 'canSign'> & Partial<Pick<PreparationDetail, 'amendedFromVersion' | 'reviewFlag' | 'resultOutOfPlan'>>;
+type SignatureView = Pick<PreparationDetail, 'signatures' | 'verificationChecklist' | 'canSign'> & Partial<Pick<PreparationDetail, 'amendedFromVersion' | 'reviewFlag' | 'resultOutOfPlan' | 'status' | 'sealBroken'>>;
+
+const SEAL_BROKEN_REFUSAL = (id: string) => `${id} no longer matches its signatures (seal broken): QA must investigate; it can only be discarded`;
 
 /** The signature fields of PreparationDetail, with canSign for the viewing user (none: all false). */
 export async function signatureView(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], viewerId?: number): Promise<SignatureView> {
@@ -470,11 +516,12 @@ export async function signatureView(p: Preparation, weighings: Weighing[], makeU
     viewerId ? SignatureAcknowledgement.findByPk(viewerId) : Promise.resolve(null),
     dilutionEntriesOf(p),
   ]);
-  const st: State = { p, weighings, makeUps, dilution, sigs, hash: canonicalRecord(p, weighings, makeUps, dilution).hash };
+  const st = stateOf(p, weighings, makeUps, dilution, sigs);
+  const sealBroken = await fullSealCheck(p, sigs, st, shownColumns); // a signed record whose data no longer match (record-integrity.ts)
   const canSign: CanSign = { prepare: false, verify: false, return: false, discard: false, reasons: {} };
   const actions = { prepare: 'prepared', verify: 'verified', return: 'returned', discard: 'discarded' } as const;
   for (const [action, meaning] of Object.entries(actions) as Array<[keyof typeof actions, SignatureInput['meaning']]>) {
-    const why = viewer ? refusal(st, meaning, { id: viewer.id, role: viewer.role }) : { message: 'Sign in to sign' };
+    const why = viewer ? (sealBroken && meaning !== 'discarded' ? { message: SEAL_BROKEN_REFUSAL(p.identifier) } : refusal(st, meaning, { id: viewer.id, role: viewer.role })) : { message: 'Sign in to sign' };
     if (why) canSign.reasons[action] = why.message;
     else canSign[action] = true;
   }
@@ -489,7 +536,17 @@ export async function signatureView(p: Preparation, weighings: Weighing[], makeU
   const lastAmend = [...sigs].reverse().find((s) => s.meaning === 'amended');
   if (lastAmend?.amendsVersion) view.amendedFromVersion = lastAmend.amendsVersion;
   if (flag) view.reviewFlag = { reason: flag.reason, flaggedAt: flag.flaggedAt };
+  if (sealBroken) {
+    view.status = SEAL_BROKEN; // overrides the summary's status in the detail (preparations.service detailOf spreads this after it)
+    view.sealBroken = sealBroken;
+  }
   return view;
+}
+
+/** The full seal check of one record (record-integrity.ts), loading its entries; null while the seal holds. */
+export async function recordSeal(p: Preparation): Promise<SealBroken | null> {
+  const st = await loadState(p);
+  return fullSealCheck(p, st.sigs, st, shownColumns);
 }
 
 // ------------------------------------------------------------------ password (two components, ES-04)
@@ -584,6 +641,7 @@ export async function sign(key: string, input: SignatureInput, signer: Signer, o
   if (!user || !user.active) throw new AppError('unauthenticated', 401, 'Sign in to continue');
   const st = await loadState(p);
   const refused = refusal(st, input.meaning, { id: user.id, role: user.role });
+  if (!refused && input.meaning !== 'discarded' && (await fullSealCheck(p, st.sigs, st, shownColumns))) throw new AppError(SEAL_BROKEN, 409, SEAL_BROKEN_REFUSAL(p.identifier));
   if (refused) {
     if (refused.code === 'self_verification') await auditRefusal(signer, p, input.meaning, refused.message);
     throw new AppError(refused.code, refused.status, refused.message);

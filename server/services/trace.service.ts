@@ -51,6 +51,8 @@ import { renderTraceabilityReport } from '../pdf/traceability-report.tsx';
 import { csvLine, recordAudit } from './audit.service.ts';
 import { labDate } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
+import { SEAL_BROKEN, sealStates, type SealBroken } from './record-integrity.ts';
+import { recordSeal, shownColumns } from './signatures.service.ts';
 
 export interface Actor {
   id: number;
@@ -716,6 +718,31 @@ function rangeOf(r: Resolved, q: Pick<TraceQuery, 'from' | 'to' | 'sinceLastGood
   return { from, to: q.to ?? null };
 }
 
+/**
+ * Signed records whose data differ from what was signed show as seal_broken (record-integrity.ts): the row check
+ * for every standard in the trace, the full check for the traced standard itself.
+ */
+async function sealBrokenOf(identifiers: string[], root?: Preparation): Promise<Map<string, SealBroken>> {
+  const unique = [...new Set(identifiers)];
+  if (!unique.length) return new Map();
+  const ps = await Preparation.findAll({ where: { identifier: unique } });
+  const states = await sealStates(ps, shownColumns);
+  const out = new Map(ps.filter((p) => states.has(p.id)).map((p) => [p.identifier, states.get(p.id)!]));
+  const full = root ? await recordSeal(root) : null;
+  if (root && full) out.set(root.identifier, full);
+  return out;
+}
+
+function markSealBroken(nodes: TraceNode[], broken: Map<string, SealBroken>): void {
+  for (const n of nodes) {
+    const b = n.type === 'preparation' ? broken.get(String(n.detail.identifier)) : undefined;
+    if (b) {
+      n.status = SEAL_BROKEN;
+      n.detail.sealBroken = b;
+    }
+  }
+}
+
 /** GET /api/trace/:identifier */
 export async function trace(identifier: string, q: TraceQuery): Promise<TraceResponse> {
   const r = await resolveSubject(identifier);
@@ -725,6 +752,8 @@ export async function trace(identifier: string, q: TraceQuery): Promise<TraceRes
   const backward = r.preparation ? (await backwardOf(r.preparation, timeZone)).graph : { nodes: [], edges: [] };
   const prepIds = forward.preparationIds;
   const identifiers = prepIds.length ? new Map((await Preparation.findAll({ where: { id: prepIds }, attributes: ['id', 'identifier'] })).map((p) => [p.id, p.identifier])) : new Map<number, string>();
+  const nodes = [...backward.nodes, ...forward.graph.nodes];
+  markSealBroken(nodes, await sealBrokenOf(nodes.filter((n) => n.type === 'preparation').map((n) => String(n.detail.identifier)), r.preparation));
   return { subject: r.subject, range, backward, forward: forward.graph, forwardPreparations: prepIds.map((id) => identifiers.get(id)!) };
 }
 
@@ -737,6 +766,8 @@ export async function traceReport(identifier: string): Promise<{ subject: TraceS
   }
   const settings = await getSettings();
   const { rows } = await backwardOf(r.preparation, settings.timeZone);
+  const broken = await sealBrokenOf(rows.filter((x) => x.link === 'preparation').map((x) => x.identifier), r.preparation);
+  for (const x of rows) if (x.link === 'preparation' && broken.has(x.identifier)) x.statusNow = SEAL_BROKEN; // the CSV and PDF say so
   return { subject: r.subject, preparation: r.preparation, rows, labDateTimeZone: settings.timeZone, labName: settings.labName };
 }
 
@@ -764,7 +795,7 @@ export async function traceReportPdf(identifier: string, actor: Actor): Promise<
   const pdf = await renderTraceabilityReport({
     lab: { name: labName, timeZone: labDateTimeZone },
     subject,
-    status: preparation.status,
+    status: rows[0]?.statusNow ?? preparation.status,
     version: preparation.version,
     rows,
     generatedAt: new Date().toISOString(),

@@ -81,13 +81,16 @@ export type AuditPage = z.infer<typeof auditPageSchema>;
 
 export const auditTrailSchema = z.object({ items: z.array(auditEntrySchema) });
 
-export const AUDIT_BREAK_REASONS = ['hash mismatch', 'previous hash mismatch', 'gap in ids'] as const;
+/** "not keyed": unkeyed entries with no switch to the keyed chain; "anchor mismatch": the entry named by the latest anchor is gone or differs. */
+export const AUDIT_BREAK_REASONS = ['hash mismatch', 'previous hash mismatch', 'gap in ids', 'not keyed', 'anchor mismatch'] as const;
 export type AuditBreakReason = (typeof AUDIT_BREAK_REASONS)[number];
 
 export const auditVerifyResultSchema = z.object({
   ok: z.boolean(),
   checked: z.number().int(),
   firstBroken: z.object({ id: z.number().int(), reason: z.enum(AUDIT_BREAK_REASONS) }).optional(),
+  /** the latest anchor (chain head written outside the database) the check compared with */
+  anchor: z.object({ id: z.number().int(), at: z.string(), hash: z.string() }).optional(),
 });
 export type AuditVerifyResult = z.infer<typeof auditVerifyResultSchema>;
 

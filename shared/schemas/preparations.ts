@@ -296,6 +296,11 @@ export interface PreparationSummary {
   stage: PreparationStage;
   /** set when `status` is 'expired' only because the lab date is past expiresOn: the stored status (e.g. 'verified') */
   statusBeforeExpiry?: PreparationStatus;
+  /**
+   * set when `status` is 'seal_broken': the stored data no longer match what was signed (server/services/record-integrity.ts);
+   * storedStatus is the status the record would otherwise show, problems say what differs
+   */
+  sealBroken?: { storedStatus: PreparationStatus; problems: string[] };
   materialName: string;
   analyteFormula: string;
   target: Quantity;

@@ -14,7 +14,7 @@ import { chromium, type Browser, type BrowserContext, type Page } from 'playwrig
 export const ROOT = resolve(dirname(fileURLToPath(import.meta.url)), '../..');
 export const ARTIFACTS = join(ROOT, 'artifacts');
 
-export type RunningServer = { baseUrl: string; stop: () => Promise<void>; log: () => string };
+export type RunningServer = { baseUrl: string; stop: () => Promise<void>; log: () => string; /** the server's SQLite file (for tamper tests through a second connection) */ dbPath: string };
 
 function freePort(): Promise<number> {
   return new Promise((res, rej) => {
@@ -75,7 +75,7 @@ export async function startServer(): Promise<RunningServer> {
     }
     rmSync(dir, { recursive: true, force: true });
   };
-  return { baseUrl: `http://127.0.0.1:${port}`, stop, log: () => output };
+  return { baseUrl: `http://127.0.0.1:${port}`, stop, log: () => output, dbPath: join(dir, 'e2e.sqlite') };
 }
 
 export function launchBrowser(): Promise<Browser> {

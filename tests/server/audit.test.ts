@@ -1,12 +1,14 @@
-// Audit trail core (REQUIREMENTS AT-02, AT-05): append-only triggers, the SHA-256 hash chain, tamper
-// detection through a separate raw SQLite connection, field diffs and canonical JSON.
-import { createHash } from 'node:crypto';
+// Audit trail core (REQUIREMENTS AT-02, AT-05): append-only triggers, the keyed (HMAC-SHA-256) hash chain and its
+// anchors, tamper detection through a separate raw SQLite connection, field diffs and canonical JSON.
+import { createHash, createHmac } from 'node:crypto';
+import { appendFileSync, readFileSync } from 'node:fs';
+import { join } from 'node:path';
 import sqlite3 from 'sqlite3';
 import { QueryTypes } from 'sequelize';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry } from '../../server/db/models/index.ts';
 import { canonicalJson, diffFields, writeTransaction } from '../../server/db/transaction.ts';
-import { GENESIS_HASH, entryHash, recordAudit, verifyAuditChain } from '../../server/services/audit.service.ts';
+import { CHAIN_KEYED_ACTION, GENESIS_HASH, chainHead, entryHash, keyedEntryHash, readAnchors, recordAudit, verifyAuditChain, writeAnchor } from '../../server/services/audit.service.ts';
 import { makeTestApp, type TestApp } from './helpers/test-app.ts';
 
 const ACTOR = { id: 7, fullName: 'Dr. Test Analyst' };
@@ -47,9 +49,9 @@ describe('audit trail storage', () => {
   });
   afterAll(() => t.close());
 
-  it('when an entry is written, then its hash is SHA-256(prev_hash + "\\n" + canonical JSON of its content) and the first prev_hash is 64 zeros', async () => {
+  it('when an entry is written, then its hash is HMAC-SHA-256(key, prev_hash + "\\n" + canonical JSON of its content), the key is outside the database and the first prev_hash is 64 zeros', async () => {
     // Source: the chain definition in REQUIREMENTS AT-05 as specified for this module (audit.service.ts header);
-    // SHA-256 per FIPS 180-4 via node:crypto. The canonical string is written out by hand here.
+    // HMAC per RFC 2104 / FIPS 198-1 with SHA-256 (FIPS 180-4) via node:crypto. The canonical string is written out by hand here.
     await writeTransaction((tx) =>
       recordAudit({ actor: ACTOR, action: 'create', entity: 'balance', entityId: 3, changes: [{ field: 'capacityG', oldValue: null, newValue: '220.0' }] }, tx),
     );
@@ -61,8 +63,10 @@ describe('audit trail storage', () => {
     const canonical =
       `{"action":"create","actorId":7,"actorName":"Dr. Test Analyst","changes":[{"field":"capacityG","newValue":"220.0","oldValue":null}],` +
       `"entity":"balance","entityId":"3","id":1,"occurredAt":"${row.occurredAt}","reason":null}`;
-    const expected = createHash('sha256').update(`${GENESIS_HASH}\n${canonical}`).digest('hex');
+    expect(t.config.auditChainKey).toBe(readFileSync(join(t.dir, 'audit-chain-key'), 'utf8').trim()); // generated into the data folder outside production
+    const expected = createHmac('sha256', t.config.auditChainKey).update(`${GENESIS_HASH}\n${canonical}`).digest('hex');
     expect(row.hash).toBe(expected);
+    expect(row.hash).not.toBe(createHash('sha256').update(`${GENESIS_HASH}\n${canonical}`).digest('hex'));
   });
 
   it('when UPDATE or DELETE is sent as raw SQL, then the triggers refuse it and the row is unchanged', async () => {
@@ -151,7 +155,7 @@ describe('tamper: a changed new value with its own hash recomputed', () => {
   });
   afterAll(() => t.close());
 
-  it('when row 4\'s new value and hash are rewritten consistently, then the next entry\'s previous-hash link breaks', async () => {
+  it('when row 4\'s new value and hash are rewritten with a recomputed SHA-256 (no key), then row 4 fails its own hash', async () => {
     const raw = rawDb(t.dbPath);
     const [row] = await raw.all<Record<string, unknown>>('SELECT * FROM audit_entries WHERE id = 4');
     const changes = '[{"field":"volume","newValue":"99.0","oldValue":"100.0"}]';
@@ -169,7 +173,7 @@ describe('tamper: a changed new value with its own hash recomputed', () => {
     await raw.exec('DROP TRIGGER audit_entries_no_update;');
     await raw.exec(`UPDATE audit_entries SET changes = '${changes}', hash = '${forged}' WHERE id = 4;`);
     await raw.close();
-    expect(await verifyAuditChain()).toEqual({ ok: false, checked: 5, firstBroken: { id: 5, reason: 'previous hash mismatch' } });
+    expect(await verifyAuditChain()).toEqual({ ok: false, checked: 4, firstBroken: { id: 4, reason: 'hash mismatch' } });
   });
 });
 
@@ -246,6 +250,100 @@ describe('tamper: inserted rows', () => {
     );
     await raw.close();
     expect((await verifyAuditChain()).firstBroken).toEqual({ id: 9, reason: 'gap in ids' });
+  });
+});
+
+/** The content of a raw row as the chain hashes it. */
+function contentOfRaw(row: Record<string, unknown>, over: Record<string, unknown> = {}) {
+  return {
+    id: Number(row.id),
+    occurredAt: String(row.occurred_at),
+    actorId: row.actor_id === null ? null : Number(row.actor_id),
+    actorName: row.actor_name === null ? null : String(row.actor_name),
+    action: String(row.action),
+    entity: String(row.entity),
+    entityId: row.entity_id === null ? null : String(row.entity_id),
+    changes: JSON.parse(String(row.changes)) as unknown,
+    reason: row.reason === null ? null : String(row.reason),
+    ...over,
+  };
+}
+
+describe('tamper §4: the keyed chain and its anchors (attacker holds the file, not the key)', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await makeTestApp({ seed: false });
+    await write(12);
+  });
+  afterAll(() => t.close());
+
+  it('when the last entries are deleted with the sequence rolled back and a forged entry is appended with a recomputed hash, then the check finds it; with the anchor it also finds the truncation', async () => {
+    const anchor = await writeAnchor(new Date('2026-12-01T06:00:00.000Z'));
+    expect(anchor).toEqual({ at: '2026-12-01T06:00:00.000Z', ...(await chainHead())! });
+    expect(readAnchors().at(-1)).toEqual(anchor); // one JSON line per anchor in the append-only log
+    expect(readFileSync(t.config.auditAnchorFile, 'utf8')).toContain(`"id":${anchor!.id}`);
+    expect(await verifyAuditChain()).toEqual({ ok: true, checked: 12, anchor: { id: 12, at: anchor!.at, hash: anchor!.hash } });
+
+    const raw = rawDb(t.dbPath);
+    await raw.exec("DROP TRIGGER audit_entries_no_delete; DELETE FROM audit_entries WHERE id > 9; UPDATE sqlite_sequence SET seq = 9 WHERE name = 'audit_entries';");
+    // the truncated tail alone: the anchor names entry 12, which is gone
+    expect(await verifyAuditChain()).toMatchObject({ ok: false, checked: 9, firstBroken: { id: 10, reason: 'anchor mismatch' } });
+    // then a forged entry 10 with the right previous hash and a hash recomputed both ways an attacker without the key can
+    const [nine] = await raw.all<Record<string, unknown>>('SELECT * FROM audit_entries WHERE id = 9');
+    const content = contentOfRaw(nine!, { id: 10, occurredAt: '2026-12-01T07:00:00.000Z', changes: [], reason: 'forged' });
+    for (const forged of [entryHash(String(nine!.hash), content), keyedEntryHash('a guessed key that is not the chain key', String(nine!.hash), content)]) {
+      await raw.exec('DELETE FROM audit_entries WHERE id = 10;');
+      await raw.all(
+        `INSERT INTO audit_entries (id, occurred_at, actor_id, actor_name, action, entity, entity_id, changes, reason, prev_hash, hash) VALUES (10, ?, ?, ?, ?, ?, ?, '[]', 'forged', ?, ?)`,
+        [content.occurredAt, content.actorId, content.actorName, content.action, content.entity, content.entityId, nine!.hash, forged],
+      );
+      expect(await verifyAuditChain()).toMatchObject({ ok: false, checked: 10, firstBroken: { id: 10, reason: 'hash mismatch' } });
+    }
+    await raw.close();
+  });
+});
+
+describe('tamper §4: a chain that began before the key existed', () => {
+  let t: TestApp;
+  beforeAll(async () => {
+    t = await makeTestApp({ seed: false });
+  });
+  afterAll(() => t.close());
+
+  it('when unkeyed entries exist, then the next write puts the keyed switch entry first and the chain verifies; rewriting it all unkeyed without the switch is "not keyed"', async () => {
+    // three entries as the previous release wrote them (plain SHA-256), inserted behind the app's back
+    const raw = rawDb(t.dbPath);
+    let prev = GENESIS_HASH;
+    for (let id = 1; id <= 3; id++) {
+      const content = { id, occurredAt: `2026-11-0${id}T08:00:00.000Z`, actorId: 7, actorName: 'Dr. Test Analyst', action: 'update', entity: 'balance', entityId: '1', changes: [], reason: null };
+      const hash = entryHash(prev, content);
+      await raw.all(`INSERT INTO audit_entries (id, occurred_at, actor_id, actor_name, action, entity, entity_id, changes, reason, prev_hash, hash) VALUES (?, ?, 7, 'Dr. Test Analyst', 'update', 'balance', '1', '[]', NULL, ?, ?)`, [id, content.occurredAt, prev, hash]);
+      prev = hash;
+    }
+    expect(await verifyAuditChain()).toMatchObject({ ok: false, firstBroken: { id: 3, reason: 'not keyed' } });
+    await write(2);
+    const rows = await raw.all<Record<string, unknown>>('SELECT * FROM audit_entries ORDER BY id');
+    expect(rows.map((r) => r.action)).toEqual(['update', 'update', 'update', CHAIN_KEYED_ACTION, 'update', 'update']);
+    expect(rows[3]!.hash).toBe(keyedEntryHash(t.config.auditChainKey, String(rows[3]!.prev_hash), contentOfRaw(rows[3]!)));
+    expect(await verifyAuditChain()).toEqual({ ok: true, checked: 6 });
+
+    // an attacker drops the switch and re-links everything after it with plain SHA-256
+    await raw.exec('DROP TRIGGER audit_entries_no_delete; DROP TRIGGER audit_entries_no_update; DELETE FROM audit_entries WHERE id > 3;');
+    let head = String(rows[2]!.hash);
+    for (const [i, r] of rows.slice(4).entries()) {
+      const content = contentOfRaw(r, { id: 4 + i });
+      const hash = entryHash(head, content);
+      await raw.all(`INSERT INTO audit_entries (id, occurred_at, actor_id, actor_name, action, entity, entity_id, changes, reason, prev_hash, hash) VALUES (?, ?, ?, ?, ?, ?, ?, ?, ?, ?, ?)`, [content.id, content.occurredAt, content.actorId, content.actorName, content.action, content.entity, content.entityId, String(r.changes), content.reason, head, hash]);
+      head = hash;
+    }
+    await raw.exec("UPDATE sqlite_sequence SET seq = 5 WHERE name = 'audit_entries';");
+    await raw.close();
+    expect(await verifyAuditChain()).toMatchObject({ ok: false, firstBroken: { id: 5, reason: 'not keyed' } });
+  });
+
+  it('when the anchor log holds a damaged line, then that line is skipped, not read as an anchor', async () => {
+    appendFileSync(t.config.auditAnchorFile, 'not json\n');
+    expect(readAnchors().length).toBe(0);
   });
 });
 

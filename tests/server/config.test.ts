@@ -44,6 +44,19 @@ describe('loadConfig', () => {
     expect(existsSync(join(dir, 'prod', 'session-secret'))).toBe(false);
   });
 
+  it('when AUDIT_CHAIN_KEY is missing in production, then a clear error and no key file; outside production the key is generated once into the data folder', () => {
+    const env = { NODE_ENV: 'production', SESSION_SECRET: 's'.repeat(40), TAREBOOK_DB: join(dir, 'prod2', 'db.sqlite') };
+    expect(() => loadConfig(env)).toThrow(/AUDIT_CHAIN_KEY is not set/);
+    expect(existsSync(join(dir, 'prod2', 'audit-chain-key'))).toBe(false);
+    expect(() => loadConfig({ ...env, AUDIT_CHAIN_KEY: 'short' })).toThrow(/at least 32 characters/);
+    expect(loadConfig({ ...env, AUDIT_CHAIN_KEY: 'k'.repeat(40) }).auditChainKey).toBe('k'.repeat(40));
+    const dev = { SESSION_SECRET: 's'.repeat(40), TAREBOOK_DB: join(dir, 'dev2', 'db.sqlite') };
+    const first = loadConfig(dev);
+    expect(first.auditChainKey).toMatch(/^[0-9a-f]{96}$/);
+    expect(loadConfig(dev).auditChainKey).toBe(first.auditChainKey);
+    expect(first.auditAnchorFile).toBe(join(dir, 'dev2', 'audit-anchors.log'));
+  });
+
   it('when SESSION_SECRET is too short or PORT is not a number, then a ConfigError', () => {
     expect(() => loadConfig({ SESSION_SECRET: 'short' })).toThrow(/at least 32 characters/);
     expect(() => loadConfig({ SESSION_SECRET: 's'.repeat(40), PORT: 'eighty' })).toThrow(/PORT/);

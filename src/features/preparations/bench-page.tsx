@@ -13,7 +13,7 @@ import { WeighingForm } from './components/weighing-form.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, formatLabTime } from './format.ts';
 import type { Weighing } from './types.ts';
-import { AmendedMarker, ReviewFlagBanner, StatusBadge } from '../signatures/components/status-badge.tsx';
+import { AmendedMarker, ReviewFlagBanner, SealBrokenBanner, StatusBadge } from '../signatures/components/status-badge.tsx';
 import { isDilution } from '../lineage/components/lineage-section.tsx';
 import { DilutionBench } from '../lineage/components/dilution-bench.tsx';
 import { GravimetricBench, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
@@ -109,6 +109,7 @@ export function BenchPage() {
       </section>
       )}
 
+      <SealBrokenBanner d={d} />
       <ReviewFlagBanner d={d} timeZone={tz} />
 
       {dilution ? <DilutionBench d={d} timeZone={tz} /> : null}

@@ -18,7 +18,7 @@ import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '..
 import { GravimetricPanel, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
 import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
 import { MixAction, MixInputs, MixPanel, isMix } from '../mixes/components/mix-panel.tsx';
-import { AmendedMarker, ReviewFlagBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
+import { AmendedMarker, ReviewFlagBanner, SealBrokenBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
 import { ExpiredBanner, ExpiryPanel } from '../expiry/components/expiry-panel.tsx';
 
 function Facts({ rows, testId }: { rows: [string, ReactNode][]; testId?: string }) {
@@ -157,6 +157,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </p>
       </PageHeader>
 
+      <SealBrokenBanner d={d} />
       <ReviewFlagBanner d={d} timeZone={tz} />
       <ExpiredBanner d={d} />
 

@@ -15,6 +15,7 @@ export const STATUS_TEXT: Record<string, { label: string; hint: string }> = {
   returned: { label: 'Returned', hint: 'returned to the preparer with a reason' },
   discarded: { label: 'Discarded', hint: 'withdrawn from use' },
   expired: { label: 'Expired', hint: 'past its expiry date' },
+  seal_broken: { label: 'Seal broken', hint: 'its stored data no longer match its signatures; do not use it, QA must investigate' },
 };
 
 export function statusText(status: PreparationStatus | string): { label: string; hint: string } {

@@ -9,6 +9,7 @@ const TONES: Record<string, string> = {
   returned: 'border-bad-700 bg-bad-50 text-bad-700',
   discarded: 'border-ink-soft bg-slate-100 text-ink-soft',
   expired: 'border-caution-700 bg-caution-50 text-caution-700',
+  seal_broken: 'border-bad-700 bg-bad-700 text-white',
 };
 
 const MARKS: Record<string, string> = {
@@ -18,6 +19,7 @@ const MARKS: Record<string, string> = {
   returned: '↩',
   discarded: '✕',
   expired: '⌛',
+  seal_broken: '⚠',
 };
 
 export function StatusBadge({ status, testId, withHint = false }: { status: string; testId?: string; withHint?: boolean }) {
@@ -76,6 +78,28 @@ export function ReviewFlagBanner({ d, timeZone }: { d: Pick<PreparationDetail, '
       <p className="text-ink">
         {d.reviewFlag.reason} <span className="text-ink-soft">(flagged {at})</span>
       </p>
+    </div>
+  );
+}
+
+/**
+ * A signed record whose stored data no longer match its signatures (server/services/record-integrity.ts): what
+ * differs, and what to do. Shown on the record and the bench view; the list and the trace show the badge.
+ */
+export function SealBrokenBanner({ d }: { d: Pick<PreparationDetail, 'sealBroken'> }) {
+  if (!d.sealBroken) return null;
+  return (
+    <div role="alert" data-testid="seal-broken" className="rounded-lg border-2 border-l-8 border-bad-700 bg-bad-50 px-4 py-3 text-bad-700">
+      <p className="text-lg font-bold">Seal broken: this record no longer matches what was signed</p>
+      <p className="text-ink">
+        Stored as {statusText(d.sealBroken.storedStatus).label.toLowerCase()}, but its data were changed outside Tarebook. Do not use this standard or
+        print its labels; QA has been told and must investigate.
+      </p>
+      <ul className="mt-1 list-disc pl-6 text-ink" data-testid="seal-broken-problems">
+        {d.sealBroken.problems.map((p) => (
+          <li key={p}>{p}</li>
+        ))}
+      </ul>
     </div>
   );
 }
