@@ -116,7 +116,8 @@ export async function signOut(userId: number | undefined): Promise<void> {
 
 /** The user behind a session, or null when the account is gone or deactivated. */
 export async function findSessionUser(userId: number): Promise<SessionUser | null> {
-  const user = await User.findByPk(userId);
+  // what the session needs, on every request: never the password hash
+  const user = await User.findByPk(userId, { attributes: ['id', 'email', 'fullName', 'initials', 'role', 'active'] });
   if (!user || !user.active) return null;
   return toSessionUser(user);
 }

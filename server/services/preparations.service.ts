@@ -334,7 +334,7 @@ function stageOf(hasWeighing: boolean, hasMakeUp: boolean): PreparationStage {
 async function usersById(ids: number[]): Promise<Map<number, User>> {
   const unique = [...new Set(ids)];
   if (!unique.length) return new Map();
-  const rows = await User.findAll({ where: { id: unique } });
+  const rows = await User.findAll({ attributes: ['id', 'fullName', 'initials'], where: { id: unique } }); // names only, never the password hash
   return new Map(rows.map((u) => [u.id, u]));
 }
 
@@ -457,6 +457,9 @@ export async function getPreparation(key: string, viewerId?: number): Promise<Pr
   return detailOf(await findPreparation(key), viewerId);
 }
 
+/** The columns a list row needs (summaryOf), besides the material name. */
+const LIST_ATTRIBUTES = ['id', 'identifier', 'status', 'analyteFormula', 'targetValue', 'targetUnit', 'volumeValue', 'volumeUnit', 'concentrationDisplay', 'expiresOn', 'createdBy', 'createdAt'] as const;
+
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
 
 /** GET /api/preparations */
@@ -478,26 +481,28 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
     } as WhereOptions);
   }
   const { rows, count } = await Preparation.findAndCountAll({
+    // the summary's columns only: the large JSON (plan, inputs, snapshots, result) stays on disk; the material
+    // snapshot is cut down to its name in SQL (summaryOf reads snapshotMaterial.name)
+    attributes: [...LIST_ATTRIBUTES, [literal("json_object('name', json_extract(snapshot_material, '$.name'))"), 'snapshotMaterial']],
     where: and.length ? { [Op.and]: and } : {},
     order: [['id', 'DESC']],
     limit: q.pageSize,
     offset: (q.page - 1) * q.pageSize,
   });
   const ids = rows.map((r) => r.id);
-  const [ws, ms, as] = ids.length
-    ? await Promise.all([
-        Weighing.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
-        MakeUp.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
-        DilutionAliquot.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
-      ])
-    : [[], [], []];
-  const weighed = new Set([...ws, ...as].map((w) => w.preparationId)); // a dilution's aliquot stands for the weighing
-  const madeUp = new Set(ms.map((m) => m.preparationId));
-  // a dilution by mass is weighed and made up in one step: both readings (gravimetric_readings)
-  for (const r of ids.length ? await GravimetricReading.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }) : []) {
-    weighed.add(r.preparationId);
-    madeUp.add(r.preparationId);
-  }
+  // one statement for the stages of the page: a dilution's aliquot stands for the weighing; a dilution by mass is
+  // weighed and made up in one step (gravimetric_readings)
+  const steps = ids.length
+    ? await Preparation.sequelize!.query<{ id: number; step: string }>(
+        `SELECT DISTINCT preparation_id AS id, 'w' AS step FROM weighings WHERE preparation_id IN (:ids)
+         UNION SELECT DISTINCT preparation_id, 'w' FROM dilution_aliquots WHERE preparation_id IN (:ids)
+         UNION SELECT DISTINCT preparation_id, 'm' FROM make_ups WHERE preparation_id IN (:ids)
+         UNION SELECT DISTINCT preparation_id, 'g' FROM gravimetric_readings WHERE preparation_id IN (:ids)`,
+        { replacements: { ids }, type: QueryTypes.SELECT },
+      )
+    : [];
+  const weighed = new Set(steps.filter((x) => x.step !== 'm').map((x) => Number(x.id)));
+  const madeUp = new Set(steps.filter((x) => x.step !== 'w').map((x) => Number(x.id)));
   const users = await usersById(rows.map((r) => r.createdBy));
   return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today)), total: count, page: q.page, pageSize: q.pageSize };
 }
