@@ -67,9 +67,24 @@ export class GateBlockedError extends AppError {
 
 // ------------------------------------------------------------------ time
 
+/**
+ * Intl formatters are costly to build and hold no state: one per time zone, keyed on the zone's name and kept for the
+ * life of the process (a handful of zones at most; a changed settings.timeZone simply uses another entry).
+ */
+const dateFormats = new Map<string, Intl.DateTimeFormat>();
+function dateFormat(timeZone: string): Intl.DateTimeFormat {
+  let f = dateFormats.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    if (dateFormats.size > 50) dateFormats.clear();
+    dateFormats.set(timeZone, f);
+  }
+  return f;
+}
+
 /** The lab's calendar date of an instant (YYYY-MM-DD in settings.timeZone). */
 export function labDate(at: Date, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at);
+  const parts = dateFormat(timeZone).formatToParts(at);
   const get = (t: string) => parts.find((p) => p.type === t)!.value;
   return `${get('year')}-${get('month')}-${get('day')}`;
 }
@@ -480,30 +495,31 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
       ],
     } as WhereOptions);
   }
-  const { rows, count } = await Preparation.findAndCountAll({
-    // the summary's columns only: the large JSON (plan, inputs, snapshots, result) stays on disk; the material
-    // snapshot is cut down to its name in SQL (summaryOf reads snapshotMaterial.name)
-    attributes: [...LIST_ATTRIBUTES, [literal("json_object('name', json_extract(snapshot_material, '$.name'))"), 'snapshotMaterial']],
-    where: and.length ? { [Op.and]: and } : {},
+  const where = and.length ? { [Op.and]: and } : {};
+  // One statement for the page: the summary's columns only (the large JSON stays on disk; the material snapshot is
+  // cut to its name in SQL, summaryOf reads snapshotMaterial.name), the stage
+  // (a dilution's aliquot stands for the weighing; a dilution by mass is weighed and made up in one step,
+  // gravimetric_readings) and the creator's name and initials.
+  const has = (table: string) => `EXISTS (SELECT 1 FROM ${table} x WHERE x.preparation_id = \`Preparation\`.\`id\`)`;
+  const rows = await Preparation.findAll({
+    attributes: [
+      ...LIST_ATTRIBUTES,
+      [literal("json_object('name', json_extract(snapshot_material, '$.name'))"), 'snapshotMaterial'],
+      [literal(`${has('weighings')} OR ${has('dilution_aliquots')} OR ${has('gravimetric_readings')}`), 'listWeighed'],
+      [literal(`${has('make_ups')} OR ${has('gravimetric_readings')}`), 'listMadeUp'],
+      [literal('(SELECT u.full_name FROM users u WHERE u.id = `Preparation`.`created_by`)'), 'listCreatorName'],
+      [literal('(SELECT u.initials FROM users u WHERE u.id = `Preparation`.`created_by`)'), 'listCreatorInitials'],
+    ],
+    where,
     order: [['id', 'DESC']],
     limit: q.pageSize,
     offset: (q.page - 1) * q.pageSize,
   });
-  const ids = rows.map((r) => r.id);
-  // one statement for the stages of the page: a dilution's aliquot stands for the weighing; a dilution by mass is
-  // weighed and made up in one step (gravimetric_readings)
-  const steps = ids.length
-    ? await Preparation.sequelize!.query<{ id: number; step: string }>(
-        `SELECT DISTINCT preparation_id AS id, 'w' AS step FROM weighings WHERE preparation_id IN (:ids)
-         UNION SELECT DISTINCT preparation_id, 'w' FROM dilution_aliquots WHERE preparation_id IN (:ids)
-         UNION SELECT DISTINCT preparation_id, 'm' FROM make_ups WHERE preparation_id IN (:ids)
-         UNION SELECT DISTINCT preparation_id, 'g' FROM gravimetric_readings WHERE preparation_id IN (:ids)`,
-        { replacements: { ids }, type: QueryTypes.SELECT },
-      )
-    : [];
-  const weighed = new Set(steps.filter((x) => x.step !== 'm').map((x) => Number(x.id)));
-  const madeUp = new Set(steps.filter((x) => x.step !== 'w').map((x) => Number(x.id)));
-  const users = await usersById(rows.map((r) => r.createdBy));
+  // the total apart: a window count would build every matching row (and its material name) before the limit
+  const count = rows.length < q.pageSize && q.page === 1 ? rows.length : await Preparation.count({ where });
+  const weighed = new Set(rows.filter((r) => Number(r.get('listWeighed'))).map((r) => r.id));
+  const madeUp = new Set(rows.filter((r) => Number(r.get('listMadeUp'))).map((r) => r.id));
+  const users = new Map(rows.filter((r) => r.get('listCreatorName') !== null).map((r) => [r.createdBy, { fullName: r.get('listCreatorName'), initials: r.get('listCreatorInitials') } as unknown as User]));
   return { items: rows.map((p) => summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today)), total: count, page: q.page, pageSize: q.pageSize };
 }
 

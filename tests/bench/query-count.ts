@@ -17,16 +17,19 @@ const sequelize = await openDatabase(dbPath);
 try {
   await migrateUp(sequelize);
   await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await hashPassword(DEMO_PASSWORD) });
+  if (process.env.QC_FILL) await (await import('./goals-bench.ts')).fillPreparations(sequelize, Number(process.env.QC_FILL));
   const app = createApp({ sequelize, config: loadConfig({ NODE_ENV: 'test', TAREBOOK_DB: dbPath, SESSION_SECRET: 'q'.repeat(40) }), distDir: join(dir, 'none') });
   const login = await request(app).post('/api/auth/login').send({ email: process.env.QC_USER ?? 'qa@harbourside.example', password: DEMO_PASSWORD });
   const cookie = ([] as string[]).concat(login.headers['set-cookie'] ?? []).find((c) => c.startsWith('tarebook_session='))!.split(';')[0]!;
   for (const path of process.argv.slice(2)) {
     await request(app).get(path).set('Cookie', cookie); // warm
     const seen: string[] = [];
-    const options = (sequelize as unknown as { options: { logging: unknown } }).options;
-    options.logging = (sql: string) => void seen.push(sql.replace(/^Executing \([^)]*\): /, '').slice(0, 160));
+    const options = (sequelize as unknown as { options: { logging: unknown; benchmark: boolean } }).options;
+    options.benchmark = true;
+    options.logging = (sql: string, ms: number) => void seen.push(`${String(ms).padStart(5)} ms  ${sql.replace(/^Executed \([^)]*\): /, '').slice(0, Number(process.env.QC_WIDTH ?? 160))}`);
     const res = await request(app).get(path).set('Cookie', cookie);
     options.logging = false;
+    options.benchmark = false;
     console.log(`\n## ${path} → ${res.status}, ${seen.length} statements`);
     for (const s of seen) console.log('  ' + s);
   }
