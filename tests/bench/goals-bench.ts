@@ -172,19 +172,24 @@ async function spawnServer(cmd: string[], env: NodeJS.ProcessEnv, healthPath: st
 function stop(child: ChildProcess): Promise<void> {
   return new Promise((res) => {
     if (child.exitCode !== null) return res();
-    child.once('exit', () => res());
-    try {
-      process.kill(-child.pid!, 'SIGTERM');
-    } catch {
-      res();
-    }
-    setTimeout(() => {
+    const force = setTimeout(() => {
       try {
         process.kill(-child.pid!, 'SIGKILL');
       } catch {
         /* gone */
       }
-    }, 10_000).unref();
+    }, 10_000);
+    force.unref();
+    child.once('exit', () => {
+      clearTimeout(force); // never signal a process group id that may be reused
+      res();
+    });
+    try {
+      process.kill(-child.pid!, 'SIGTERM');
+    } catch {
+      clearTimeout(force);
+      res();
+    }
   });
 }
 
@@ -249,7 +254,10 @@ async function httpPhase(dbPath: string, cmd: string[], seconds: number, rounds:
   const real = await spawnServer(cmd, serverEnv(dbPath), '/api/health');
   const bare = await spawnServer([process.execPath, '--input-type=module', '-e', BARE_EXPRESS], serverEnv(dbPath), '/api/health');
   try {
-    const chemist = await signIn(real.base, 'chemist@harbourside.example');
+    if (real.child.exitCode !== null) throw new Error(`the server exited (${real.child.exitCode}):\n${real.log()}`);
+    const chemist = await signIn(real.base, 'chemist@harbourside.example').catch((err: Error) => {
+      throw new Error(`${err.message} (server ${real.child.exitCode === null ? 'running' : `exited ${real.child.exitCode}`}):\n${real.log()}`);
+    });
     const qa = await signIn(real.base, 'qa@harbourside.example');
     const list = await (await fetch(`${real.base}/api/preparations?pageSize=100&search=HWL`, { headers: { cookie: chemist } })).json();
     const demo = (list.items as Array<{ identifier: string; status: string }>).find((p) => p.status === 'verified');
