@@ -18,7 +18,8 @@ import { inputGuard, noStore, sameOrigin } from './middleware/request-guards.ts'
 import { apiRouter } from './routes/index.ts';
 import type { Mailer } from './mail/mailer.ts';
 
-export const DIST_DIR = fileURLToPath(new URL('../dist', import.meta.url));
+// <repo>/dist, from server/app.ts (tsx, vitest) or from build/server/app.js (compiled by scripts/build-server.mjs)
+export const DIST_DIR = fileURLToPath(new URL(import.meta.url.endsWith('.js') ? '../../dist' : '../dist', import.meta.url));
 
 export interface CreateAppOptions {
   sequelize?: Sequelize;

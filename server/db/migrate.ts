@@ -11,13 +11,15 @@ import { SequelizeStorage, Umzug, type MigrationMeta } from 'umzug';
 export type MigrationContext = QueryInterface;
 
 const MIGRATIONS_DIR = fileURLToPath(new URL('./migrations', import.meta.url));
+/** .ts from source (tsx, vitest); .js when compiled to build/ (npm start). Names stay NNNN-name.ts either way. */
+const EXT = import.meta.url.endsWith('.js') ? 'js' : 'ts';
 
 export function createMigrator(sequelize: Sequelize, { log = false }: { log?: boolean } = {}) {
   return new Umzug<QueryInterface>({
     migrations: {
-      glob: ['*.ts', { cwd: MIGRATIONS_DIR, ignore: ['*.d.ts'] }],
+      glob: [`*.${EXT}`, { cwd: MIGRATIONS_DIR, ignore: ['*.d.ts'] }],
       resolve: ({ name, path, context }) => ({
-        name,
+        name: name.replace(/\.js$/, '.ts'),
         up: async () => (await import(pathToFileURL(path!).href)).up({ context }),
         down: async () => (await import(pathToFileURL(path!).href)).down({ context }),
       }),

@@ -12,6 +12,11 @@ export const qrOptions = (text: string) => ({ bcid: 'qrcode', text, scale: 4, ec
 
 export const recordCode = (identifier: string, version: number) => `${identifier};v${version}`;
 
+/**
+ * Rendered codes, keyed on the symbology and the encoded text (the PNG depends on nothing else: the options are
+ * fixed above), so a hit is always the image a fresh render would give; a record's new version has a new text.
+ * Dropped whole past 2000 entries; a failed render is not kept.
+ */
 const cache = new Map<string, Promise<Buffer>>();
 
 function cached(key: string, make: () => Promise<Buffer>): Promise<Buffer> {

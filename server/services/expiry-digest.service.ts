@@ -7,7 +7,7 @@
  * "Within the notice period" is by lab calendar date: expires on today .. today + noticeDays, both included.
  * Standards already expired, or discarded, are left out. Inactive preparers get no mail.
  */
-import { Op } from 'sequelize';
+import { Op, literal } from 'sequelize';
 import { addDays, daysBetween } from '../../shared/prep/index.ts';
 import { DEFAULT_EXPIRY_NOTICE_DAYS } from '../../shared/schemas/settings.ts';
 import type { ExpiryDigestResult } from '../../shared/schemas/trace.ts';
@@ -77,15 +77,17 @@ export async function runExpiryDigest(now: Date, opts: DigestOptions): Promise<E
   const noticeDays = settings.expiryNoticeDays ?? DEFAULT_EXPIRY_NOTICE_DAYS;
   const on = labDate(now, settings.timeZone);
   const until = addDays(on, noticeDays);
+  // read before the write lock is taken (index preparations_expires_on; the columns the mail shows, the material
+  // snapshot cut to its name): the lock is held only to queue the mail and audit
+  const preps = await Preparation.findAll({
+    attributes: ['id', 'identifier', 'analyteFormula', 'concentrationDisplay', 'status', 'expiresOn', 'createdBy', [literal("json_object('name', json_extract(snapshot_material, '$.name'))"), 'snapshotMaterial']],
+    where: { expiresOn: { [Op.gte]: on, [Op.lte]: until }, status: { [Op.notIn]: [...DIGEST_EXCLUDED_STATUSES] } },
+    order: [['expiresOn', 'ASC'], ['identifier', 'ASC']],
+  });
+  const byPreparer = new Map<number, Preparation[]>();
+  for (const p of preps) byPreparer.set(p.createdBy, [...(byPreparer.get(p.createdBy) ?? []), p]);
+  const users = byPreparer.size ? await User.findAll({ attributes: ['id', 'email', 'fullName', 'active'], where: { id: [...byPreparer.keys()] }, order: [['id', 'ASC']] }) : [];
   const result = await writeTransaction(async (transaction) => {
-    const preps = await Preparation.findAll({
-      where: { expiresOn: { [Op.gte]: on, [Op.lte]: until }, status: { [Op.notIn]: [...DIGEST_EXCLUDED_STATUSES] } },
-      order: [['expiresOn', 'ASC'], ['identifier', 'ASC']],
-      transaction,
-    });
-    const byPreparer = new Map<number, Preparation[]>();
-    for (const p of preps) byPreparer.set(p.createdBy, [...(byPreparer.get(p.createdBy) ?? []), p]);
-    const users = byPreparer.size ? await User.findAll({ where: { id: [...byPreparer.keys()] }, order: [['id', 'ASC']], transaction }) : [];
     const mails: QueuedMail[] = [];
     const recipients: ExpiryDigestResult['recipients'] = [];
     for (const u of users) {

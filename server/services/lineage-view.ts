@@ -18,13 +18,34 @@ import { gravimetricResultOf, gravimetricSection, isGravimetricPlan } from './gr
 
 export const DILUTION_CALC_VERSION = 'dilution-1 (METROLOGY §5.5: c2 = c1·Vp/Vf, relative variances add, no per-item temperature term)';
 
+/**
+ * kind and series of committed preparations, keyed on the database (Sequelize instance) and the preparation id.
+ * Both are written once, in the transaction that creates the record (lineage.service), and never change after,
+ * so an entry cannot go stale; reads inside a transaction bypass it. Dropped whole past 5000 ids, and with the
+ * database.
+ */
+const lineageRows = new WeakMap<object, Map<number, { kind: PreparationKind; seriesId: number | null }>>();
+
 export async function lineageRow(id: number, transaction?: Transaction): Promise<{ kind: PreparationKind; seriesId: number | null }> {
+  const db = Preparation.sequelize!;
+  const memo = lineageRows.get(db) ?? (lineageRows.set(db, new Map()), lineageRows.get(db)!);
+  const hit = transaction ? undefined : memo.get(id);
+  if (hit) return { ...hit };
+  const row = await readLineageRow(id, transaction);
+  if (!transaction && row) {
+    if (memo.size >= 5000) memo.clear();
+    memo.set(id, row);
+  }
+  return row ? { ...row } : { kind: 'stock', seriesId: null };
+}
+
+async function readLineageRow(id: number, transaction?: Transaction): Promise<{ kind: PreparationKind; seriesId: number | null } | null> {
   const rows = await Preparation.sequelize!.query<{ kind: string; series_id: number | null }>('SELECT kind, series_id FROM preparations WHERE id = :id', {
     replacements: { id },
     type: QueryTypes.SELECT,
     ...(transaction ? { transaction } : {}),
   });
-  return { kind: (rows[0]?.kind ?? 'stock') as PreparationKind, seriesId: rows[0]?.series_id ?? null };
+  return rows[0] ? { kind: (rows[0].kind ?? 'stock') as PreparationKind, seriesId: rows[0].series_id ?? null } : null;
 }
 
 export const isDilutionKind = (k: string) => k === 'dilution' || k === 'series_level';

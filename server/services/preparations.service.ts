@@ -37,7 +37,7 @@ import { hazardsFor } from './preparation-hazards.ts';
 import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from './preparation-snapshots.ts';
 import { getSettings } from './settings.service.ts';
 import { checkChange, recordAmendment, shownColumns, signatureView } from './signatures.service.ts';
-import { sealStates, showSealBroken } from './record-integrity.ts';
+import { SEALED_STATUSES, sealStates, showSealBroken } from './record-integrity.ts';
 import { dataEntryMode } from './preparation-status.ts';
 import { shownStatus } from '../../shared/schemas/expiry.ts';
 import { expirySection, statusWhere } from './expiry-extension.service.ts';
@@ -68,9 +68,24 @@ export class GateBlockedError extends AppError {
 
 // ------------------------------------------------------------------ time
 
+/**
+ * Intl formatters are costly to build and hold no state: one per time zone, keyed on the zone's name and kept for the
+ * life of the process (a handful of zones at most; a changed settings.timeZone simply uses another entry).
+ */
+const dateFormats = new Map<string, Intl.DateTimeFormat>();
+function dateFormat(timeZone: string): Intl.DateTimeFormat {
+  let f = dateFormats.get(timeZone);
+  if (!f) {
+    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
+    if (dateFormats.size > 50) dateFormats.clear();
+    dateFormats.set(timeZone, f);
+  }
+  return f;
+}
+
 /** The lab's calendar date of an instant (YYYY-MM-DD in settings.timeZone). */
 export function labDate(at: Date, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at);
+  const parts = dateFormat(timeZone).formatToParts(at);
   const get = (t: string) => parts.find((p) => p.type === t)!.value;
   return `${get('year')}-${get('month')}-${get('day')}`;
 }
@@ -335,7 +350,7 @@ function stageOf(hasWeighing: boolean, hasMakeUp: boolean): PreparationStage {
 async function usersById(ids: number[]): Promise<Map<number, User>> {
   const unique = [...new Set(ids)];
   if (!unique.length) return new Map();
-  const rows = await User.findAll({ where: { id: unique } });
+  const rows = await User.findAll({ attributes: ['id', 'fullName', 'initials'], where: { id: unique } }); // names only, never the password hash
   return new Map(rows.map((u) => [u.id, u]));
 }
 
@@ -458,6 +473,9 @@ export async function getPreparation(key: string, viewerId?: number): Promise<Pr
   return detailOf(await findPreparation(key), viewerId);
 }
 
+/** The columns a list row needs (summaryOf), besides the material name. */
+const LIST_ATTRIBUTES = ['id', 'identifier', 'status', 'analyteFormula', 'targetValue', 'targetUnit', 'volumeValue', 'volumeUnit', 'concentrationDisplay', 'expiresOn', 'createdBy', 'createdAt'] as const;
+
 const likeEscape = (s: string) => s.replace(/[\\%_]/g, (c) => `\\${c}`);
 
 /** GET /api/preparations */
@@ -479,29 +497,36 @@ export async function listPreparations(q: ListPreparationsQuery, actor: Actor, o
       ],
     } as WhereOptions);
   }
-  const { rows, count } = await Preparation.findAndCountAll({
-    where: and.length ? { [Op.and]: and } : {},
+  const where = and.length ? { [Op.and]: and } : {};
+  // One statement for the page: the summary's columns only (the large JSON stays on disk; the material snapshot is
+  // cut to its name in SQL, summaryOf reads snapshotMaterial.name), the stage
+  // (a dilution's aliquot stands for the weighing; a dilution by mass is weighed and made up in one step,
+  // gravimetric_readings) and the creator's name and initials.
+  const has = (table: string) => `EXISTS (SELECT 1 FROM ${table} x WHERE x.preparation_id = \`Preparation\`.\`id\`)`;
+  const rows = await Preparation.findAll({
+    attributes: [
+      ...LIST_ATTRIBUTES,
+      [literal("json_object('name', json_extract(snapshot_material, '$.name'))"), 'snapshotMaterial'],
+      [literal(`${has('weighings')} OR ${has('dilution_aliquots')} OR ${has('gravimetric_readings')}`), 'listWeighed'],
+      [literal(`${has('make_ups')} OR ${has('gravimetric_readings')}`), 'listMadeUp'],
+      [literal('(SELECT u.full_name FROM users u WHERE u.id = `Preparation`.`created_by`)'), 'listCreatorName'],
+      [literal('(SELECT u.initials FROM users u WHERE u.id = `Preparation`.`created_by`)'), 'listCreatorInitials'],
+    ],
+    where,
     order: [['id', 'DESC']],
     limit: q.pageSize,
     offset: (q.page - 1) * q.pageSize,
   });
-  const ids = rows.map((r) => r.id);
-  const [ws, ms, as] = ids.length
-    ? await Promise.all([
-        Weighing.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
-        MakeUp.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
-        DilutionAliquot.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }),
-      ])
-    : [[], [], []];
-  const weighed = new Set([...ws, ...as].map((w) => w.preparationId)); // a dilution's aliquot stands for the weighing
-  const madeUp = new Set(ms.map((m) => m.preparationId));
-  // a dilution by mass is weighed and made up in one step: both readings (gravimetric_readings)
-  for (const r of ids.length ? await GravimetricReading.findAll({ attributes: ['preparationId'], where: { preparationId: ids } }) : []) {
-    weighed.add(r.preparationId);
-    madeUp.add(r.preparationId);
-  }
-  const users = await usersById(rows.map((r) => r.createdBy));
-  const sealBroken = await sealStates(rows, shownColumns); // signed rows whose shown data differ from what was signed (record-integrity.ts)
+  // the total apart: a window count would build every matching row (and its material name) before the limit
+  const count = rows.length < q.pageSize && q.page === 1 ? rows.length : await Preparation.count({ where });
+  const weighed = new Set(rows.filter((r) => Number(r.get('listWeighed'))).map((r) => r.id));
+  const madeUp = new Set(rows.filter((r) => Number(r.get('listMadeUp'))).map((r) => r.id));
+  const users = new Map(rows.filter((r) => r.get('listCreatorName') !== null).map((r) => [r.createdBy, { fullName: r.get('listCreatorName'), initials: r.get('listCreatorInitials') } as unknown as User]));
+  // signed rows whose shown data differ from what was signed (record-integrity.ts): the check needs every signed
+  // column, so those rows alone are read in full
+  const sealedIds = rows.filter((r) => SEALED_STATUSES.includes(r.status)).map((r) => r.id);
+  const full = sealedIds.length ? await Preparation.findAll({ where: { id: sealedIds } }) : [];
+  const sealBroken = await sealStates(full, shownColumns);
   return { items: rows.map((p) => showSealBroken(summaryOf(p, users, stageOf(weighed.has(p.id), madeUp.has(p.id)), today), sealBroken.get(p.id))), total: count, page: q.page, pageSize: q.pageSize };
 }
 

@@ -11,9 +11,24 @@ import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { recordAudit } from './audit.service.ts';
 import { forgetIdleTimeout } from './sessions.service.ts';
 
+/**
+ * The last parsed settings, keyed on the text of the stored rows as just read: the rows are read on every call,
+ * so a change (here, in another process, or by hand) gives a new key and is parsed at once; only the repeated
+ * validation of unchanged rows is saved. One entry, replaced whenever the rows differ. Callers get a copy.
+ */
+let lastParsed: { key: string; settings: LabSettings } | null = null;
+
 export async function getSettings(transaction?: Transaction): Promise<LabSettings> {
-  const rows = await Setting.findAll({ transaction });
+  const rows = await Setting.findAll({ attributes: ['key', 'value'], transaction });
   const stored = Object.fromEntries(rows.map((r) => [r.key, r.value]));
+  const key = JSON.stringify(stored);
+  if (lastParsed?.key === key) return structuredClone(lastParsed.settings);
+  const settings = parseSettings(stored);
+  lastParsed = { key, settings: structuredClone(settings) };
+  return settings;
+}
+
+function parseSettings(stored: Record<string, unknown>): LabSettings {
   const merged = { ...DEFAULT_LAB_SETTINGS, ...stored } as Record<string, unknown>;
   merged.defaultRoomConditions = {
     ...DEFAULT_LAB_SETTINGS.defaultRoomConditions,

@@ -15,7 +15,7 @@
  *   without it every preparation is a stock standard made from its material lot.
  */
 import { Op, QueryTypes } from 'sequelize';
-import { parsePreparationId } from '../../shared/prep/index.ts';
+import { addDays, parsePreparationId } from '../../shared/prep/index.ts';
 import type { Balance as BalanceDto, VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type {
   ReviewFlagDto,
@@ -116,12 +116,22 @@ function sequelize() {
   return s;
 }
 
+/**
+ * What the lineage tables look like. Cache keyed on the Sequelize instance (one per open database), dropped
+ * with it: the schema changes only by migrations, which run before the app serves.
+ */
+const schemaCache = new WeakMap<object, { parents?: Promise<Set<string> | null>; aliquots?: Promise<boolean> }>();
+const schemaOf = () => schemaCache.get(sequelize()) ?? (schemaCache.set(sequelize(), {}), schemaCache.get(sequelize())!);
+
 /** The columns of preparation_parents, or null when the table does not exist (stock standards only). */
-async function parentColumns(): Promise<Set<string> | null> {
-  const rows = await sequelize().query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name = 'preparation_parents'", { type: QueryTypes.SELECT });
-  if (!rows.length) return null;
-  const cols = await sequelize().query<{ name: string }>('PRAGMA table_info(preparation_parents)', { type: QueryTypes.SELECT });
-  return new Set(cols.map((c) => c.name));
+function parentColumns(): Promise<Set<string> | null> {
+  const cache = schemaOf();
+  return (cache.parents ??= (async () => {
+    const rows = await sequelize().query<{ name: string }>("SELECT name FROM sqlite_master WHERE type = 'table' AND name = 'preparation_parents'", { type: QueryTypes.SELECT });
+    if (!rows.length) return null;
+    const cols = await sequelize().query<{ name: string }>('PRAGMA table_info(preparation_parents)', { type: QueryTypes.SELECT });
+    return new Set(cols.map((c) => c.name));
+  })());
 }
 
 function parseJson(raw: unknown): Record<string, unknown> | null {
@@ -167,8 +177,11 @@ interface AliquotRow {
 /** Standing (not superseded) bench aliquots from dilution_aliquots, when the lineage feature has the table. */
 async function aliquots(column: 'preparation_id' | 'pipette_id', ids: number[]): Promise<AliquotRow[]> {
   if (!ids.length) return [];
-  const exists = await sequelize().query("SELECT name FROM sqlite_master WHERE type = 'table' AND name = 'dilution_aliquots'", { type: QueryTypes.SELECT });
-  if (!exists.length) return [];
+  const cache = schemaOf();
+  const exists = await (cache.aliquots ??= sequelize()
+    .query("SELECT name FROM sqlite_master WHERE type = 'table' AND name = 'dilution_aliquots'", { type: QueryTypes.SELECT })
+    .then((rows) => rows.length > 0));
+  if (!exists) return [];
   const rows = await sequelize().query<{ id: number; preparation_id: number; pipette_id: number; pipette_identifier: string; pipette_snapshot: unknown; volume_ml: string; recorded_by: number; recorded_at: string }>(
     `SELECT a.id, a.preparation_id, a.pipette_id, a.pipette_identifier, a.pipette_snapshot, a.volume_ml, a.recorded_by, a.recorded_at FROM dilution_aliquots a
      WHERE a.${column} IN (${ids.map(() => '?').join(',')}) AND NOT EXISTS (SELECT 1 FROM dilution_aliquots b WHERE b.supersedes_id = a.id) ORDER BY a.id`,
@@ -576,6 +589,17 @@ function standing<T extends { id: number; supersedesId: number | null }>(rows: T
   return rows.filter((r) => !superseded.has(r.id));
 }
 
+/**
+ * A use-time range in lab dates as a UTC window for SQL, one day wider on each side (any time zone is within
+ * ±14 h of UTC); the exact lab-date test stays in forwardOf. Lets the indexes read only the rows near the range.
+ */
+function utcWindow(range: { from: string | null; to: string | null }, column: string): Record<string, unknown> {
+  const cond: Record<symbol, string> = {};
+  if (range.from) cond[Op.gte] = addDays(range.from, -1);
+  if (range.to) cond[Op.lt] = addDays(range.to, 2);
+  return Object.getOwnPropertySymbols(cond).length ? { [column]: cond } : {};
+}
+
 /** The latest standing make-up per preparation. */
 async function latestMakeUps(where: Record<string, unknown>): Promise<MakeUp[]> {
   const rows = await MakeUp.findAll({ where, order: [['id', 'ASC']] });
@@ -585,22 +609,24 @@ async function latestMakeUps(where: Record<string, unknown>): Promise<MakeUp[]> 
   return rows.filter((r) => latest.get(r.preparationId) === r.id);
 }
 
-async function directUses(r: Resolved, timeZone: string): Promise<Use[]> {
+async function directUses(r: Resolved, timeZone: string, range: { from: string | null; to: string | null }): Promise<Use[]> {
   const day = (iso: string) => labDate(new Date(iso), timeZone);
   switch (r.subject.type) {
     case 'balance': {
-      const ws = standing(await Weighing.findAll({ where: { preparationId: (await Weighing.findAll({ where: { balanceId: r.subject.id }, attributes: ['preparationId'] })).map((w) => w.preparationId) }, order: [['id', 'ASC']] }));
+      const used = await Weighing.findAll({ where: { balanceId: r.subject.id, ...utcWindow(range, 'recordedAt') }, attributes: ['preparationId'] });
+      // every weighing of those preparations (a later correction on another balance supersedes this one)
+      const ws = standing(await Weighing.findAll({ where: { preparationId: [...new Set(used.map((w) => w.preparationId))] }, order: [['id', 'ASC']] }));
       return ws.filter((w) => w.balanceId === r.subject.id).map((w) => ({ preparationId: w.preparationId, at: w.recordedAt, relation: 'weighed on', statusAtUse: balanceStatusOn(w.balanceSnapshot, day(w.recordedAt)) }));
     }
     case 'material_lot': {
-      const ps = await Preparation.findAll({ where: { materialId: r.subject.id }, order: [['id', 'ASC']] });
+      const ps = await Preparation.findAll({ attributes: ['id', 'createdAt', 'snapshotMaterial'], where: { materialId: r.subject.id, ...utcWindow(range, 'createdAt') }, order: [['id', 'ASC']] });
       const dilutions = new Set((await parentLinks('preparation_id', ps.map((p) => p.id))).map((l) => l.preparationId));
       return ps
         .filter((p) => !dilutions.has(p.id))
         .map((p) => ({ preparationId: p.id, at: p.createdAt, relation: 'analyte source', statusAtUse: `${plainStatus(p.snapshotMaterial.status)}; lot expires ${p.snapshotMaterial.expiresOn ?? '—'}` }));
     }
     case 'volumetric_ware': {
-      const made = (await latestMakeUps({ flaskId: r.subject.id })).map((m) => ({ preparationId: m.preparationId, at: m.recordedAt, relation: 'made up in', statusAtUse: wareStatus(m.flaskSnapshot) }));
+      const made = (await latestMakeUps({ flaskId: r.subject.id, ...utcWindow(range, 'recordedAt') })).map((m) => ({ preparationId: m.preparationId, at: m.recordedAt, relation: 'made up in', statusAtUse: wareStatus(m.flaskSnapshot) }));
       const links = await parentLinks('aliquot_ware_id', [r.subject.id]);
       const children = links.length ? await Preparation.findAll({ where: { id: links.map((l) => l.preparationId) } }) : [];
       const pipetted = children.map((c) => ({ preparationId: c.id, at: c.createdAt, relation: 'aliquot pipette' }));
@@ -613,7 +639,7 @@ async function directUses(r: Resolved, timeZone: string): Promise<Use[]> {
       return [...made, ...pipetted, ...delivered];
     }
     case 'solvent_lot': {
-      return (await latestMakeUps({ solventId: r.subject.id })).map((m) => ({ preparationId: m.preparationId, at: m.recordedAt, relation: 'solvent', statusAtUse: `${plainStatus(m.solventSnapshot.status)}; lot expires ${m.solventSnapshot.expiresOn ?? '—'}` }));
+      return (await latestMakeUps({ solventId: r.subject.id, ...utcWindow(range, 'recordedAt') })).map((m) => ({ preparationId: m.preparationId, at: m.recordedAt, relation: 'solvent', statusAtUse: `${plainStatus(m.solventSnapshot.status)}; lot expires ${m.solventSnapshot.expiresOn ?? '—'}` }));
     }
     case 'preparation': {
       const links = await parentLinks('parent_preparation_id', [r.subject.id]);
@@ -643,7 +669,7 @@ async function forwardOf(r: Resolved, range: { from: string | null; to: string |
     const d = labDate(new Date(at), timeZone);
     return (!range.from || d >= range.from) && (!range.to || d <= range.to);
   };
-  const uses = (await directUses(r, timeZone)).filter((u) => inRange(u.at));
+  const uses = (await directUses(r, timeZone, range)).filter((u) => inRange(u.at));
   const reached: number[] = [];
   const seen = new Set<number>(r.preparation ? [r.preparation.id] : []);
   const load = async (ids: number[]) => new Map((ids.length ? await Preparation.findAll({ where: { id: ids } }) : []).map((p) => [p.id, p]));

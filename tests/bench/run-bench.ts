@@ -1,5 +1,7 @@
 /**
  * Benchmarks (`npm run bench`): speed is shown here, never asserted in a test (DEVELOPERS.md).
+ * `npm run bench` (or `-- --quick`) runs the goals of issue 11 (goals-bench.ts: PASS/FAIL, bench-results.json);
+ * `npm run bench -- <section name>` runs the in-process sections below whose name contains the words.
  * Builds a temporary database, fills it, then times API requests in-process with supertest and prints
  * median and p95 per case. Each case is bounded (at most `maxRuns` requests or `maxMs` wall time).
  *
@@ -21,6 +23,7 @@ import { openDatabase } from '../../server/db/sequelize.ts';
 import { hashPassword } from '../../server/services/passwords.ts';
 import { DEMO_PASSWORD } from '../../seed/demo-data.ts';
 import { seedDemoLab } from '../../seed/seed-demo-lab.ts';
+import { runGoals } from './goals-bench.ts';
 import { printingSection } from './printing-bench.ts';
 
 export interface BenchContext {
@@ -146,6 +149,14 @@ export async function runCase(ctx: BenchContext, c: BenchCase, { maxRuns = 60, m
 }
 
 async function main(): Promise<void> {
+  const args = process.argv.slice(2);
+  const quick = args.includes('--quick');
+  const only = args.filter((a) => a !== '--quick').join(' ').toLowerCase();
+  // no section named: the goals of issue 11 (start-up, HTTP ratios, PDFs, core, scaling) with PASS/FAIL
+  if (!only) {
+    if (!(await runGoals({ quick }))) process.exitCode = 1;
+    return;
+  }
   const dir = mkdtempSync(join(tmpdir(), 'tarebook-bench-'));
   const dbPath = join(dir, 'bench.sqlite');
   const config = loadConfig({ NODE_ENV: 'test', TAREBOOK_DB: dbPath, SESSION_SECRET: 'bench-secret-'.padEnd(48, 'x') });
@@ -159,7 +170,6 @@ async function main(): Promise<void> {
     if (!cookie) throw new Error(`bench: sign-in failed (${login.status})`);
     const ctx: BenchContext = { app, sequelize, cookie };
 
-    const only = process.argv.slice(2).join(' ').toLowerCase();
     for (const section of SECTIONS) {
       if (only && !section.name.toLowerCase().includes(only)) continue;
       const t0 = performance.now();

@@ -1,5 +1,6 @@
 /**
- * Browser-test harness: starts the real server (`npx tsx server/index.ts`) on a free port with a fresh
+ * Browser-test harness: starts the real server as `npm start` runs it (`node scripts/start.mjs`: the compiled
+ * server, rebuilt when a source changed) on a free port with a fresh
  * SQLite file, and drives Debian's Chromium with playwright-core (STACK.md §6 launch arguments).
  * Every page is watched: a console error or a request to any host other than localhost fails the test.
  */
@@ -35,8 +36,8 @@ export async function startServer(): Promise<RunningServer> {
   delete env.NODE_ENV; // vitest sets "test"; the server must run as a plain `npm start` would
   delete env.VITE_MIDDLEWARE;
 
-  // detached: the child leads its own process group, so stop() ends npx, tsx and node together.
-  const child: ChildProcess = spawn('npx', ['tsx', 'server/index.ts'], { cwd: ROOT, env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
+  // detached: the child leads its own process group, so stop() ends it and anything it started together.
+  const child: ChildProcess = spawn(process.execPath, ['scripts/start.mjs'], { cwd: ROOT, env, detached: true, stdio: ['ignore', 'pipe', 'pipe'] });
   let output = '';
   child.stdout?.on('data', (d: Buffer) => (output += d.toString()));
   child.stderr?.on('data', (d: Buffer) => (output += d.toString()));
