@@ -17,6 +17,7 @@ import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
 import { expiryRouter } from './expiry.routes.ts';
+import { worklistsRouter } from './worklists.routes.ts';
 
 /** Everything under /api. Each route states its role check (requireAuth / requireRole). */
 export function apiRouter(config: Config): Router {
@@ -38,5 +39,6 @@ export function apiRouter(config: Config): Router {
   router.use(outboxRouter());
   router.use(traceRouter(config));
   router.use(auditRouter());
+  router.use(worklistsRouter());
   return router;
 }
