@@ -35,7 +35,7 @@ import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
-import { activeAliquot, concentrationOf, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
+import { activeAliquot, concentrationOf, dilutionBeta, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
 const MAX_TARGET_DEVIATION = new D('0.05');
@@ -135,7 +135,7 @@ async function planLevel(parent: ParentSnapshot, level: { target: { value: strin
   }
   let planned;
   try {
-    planned = dilutionOf(parent, aliquotMl, pipette, flask, settings.roundingRule);
+    planned = dilutionOf(parent, aliquotMl, pipette, flask, settings.roundingRule, dilutionBeta(null)); // the plan's expected budget: dilution-2, water's β until the solvent is known
   } catch (e) {
     if (e instanceof CalcError) throw AppError.validation(e.message, { [`${prefix}target`]: e.message });
     throw e;
@@ -374,6 +374,7 @@ export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor,
     pipettes: ware.pipettes.filter((p) => p.toleranceMl),
     flasks: ware.flasks.filter((f) => f.toleranceMl),
     minAliquotMl,
+    fullerBudget: { betaPerK: dilutionBeta(null).betaPerK }, // expected u_r as the levels will be computed (dilution-2)
   });
   return { parent, minAliquotMl, levels };
 }
