@@ -12,7 +12,8 @@ import { selectStabilityRule } from '../../shared/prep/stability-rules.ts';
 import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type { Aliquot, DilutionSection, LineageSection, ParentSnapshot, PreparationKind } from '../../shared/schemas/lineage.ts';
 import { DEFAULT_STABILITY_BASIS, DEFAULT_STABILITY_DAYS, type LabSettings } from '../../shared/schemas/settings.ts';
-import { DilutionAliquot, MakeUp, Preparation, PreparationParent, Series, User } from '../db/models/index.ts';
+import { DilutionAliquot, MakeUp, Preparation, PreparationParent, Series, Solvent, User } from '../db/models/index.ts';
+import { solventMatrixWarning, type MatrixWarning } from '../../shared/prep/matrix.ts';
 import { AppError } from '../errors/app-error.ts';
 import { gravimetricResultOf, gravimetricSection, isGravimetricPlan } from './gravimetric-calc.ts';
 
@@ -226,6 +227,18 @@ function aliquotDto(a: DilutionAliquot, supersededBy: Map<number, number>, users
 }
 
 /** The lineage section of GET /api/preparations/:key. */
+/** The dilution's solvent (its latest make-up, else the solvent planned) against the parent's latest make-up. */
+export async function matrixWarningOf(p: Preparation, parentId: number, parentIdentifier: string): Promise<MatrixWarning | null> {
+  const [own, parentMakeUp] = await Promise.all([
+    MakeUp.findOne({ where: { preparationId: p.id }, order: [['id', 'DESC']] }),
+    MakeUp.findOne({ where: { preparationId: parentId }, order: [['id', 'DESC']] }),
+  ]);
+  let name = own?.solventSnapshot?.name ?? null;
+  const plannedId = (p.inputs as unknown as { solventId?: number }).solventId;
+  if (!name && plannedId !== undefined) name = (await Solvent.findByPk(plannedId))?.name ?? null;
+  return solventMatrixWarning({ identifier: parentIdentifier, solventName: parentMakeUp?.solventSnapshot?.name ?? null }, name);
+}
+
 export async function lineageSection(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>): Promise<LineageSection> {
   const { kind, seriesId } = await lineageRow(p.id);
   const childLinks = await PreparationParent.findAll({ where: { parentPreparationId: p.id }, order: [['id', 'ASC']] });
@@ -262,6 +275,8 @@ export async function lineageSection(p: Preparation, settings: Pick<LabSettings,
   };
   const result = await dilutionResultOf(p, settings);
   if (result) dilution.result = result;
+  const warning = await matrixWarningOf(p, link.parentPreparationId, link.snapshot.identifier);
+  if (warning) dilution.matrixWarning = warning;
   if (seriesId !== null) {
     const s = await Series.findByPk(seriesId);
     if (s) dilution.series = { id: s.id, identifier: s.identifier };

@@ -1,3 +1,4 @@
+import type { MatrixWarning } from '../prep/matrix.ts';
 /**
  * Standards made from standards: dilutions of a verified parent, calibration series, and the lineage section
  * of a preparation's detail (REQUIREMENTS TR-04, TR-11, EX-01; METROLOGY §5.5).
@@ -136,6 +137,8 @@ export interface DilutionSection {
   /** recomputed from the stored aliquot and make-up; absent until both are recorded */
   result?: DilutionResult & { calcVersion: string; basedOn: { aliquotId: number; makeUpId: number } };
   series?: { id: number; identifier: string };
+  /** set when the dilution's solvent (made up, else planned) differs from the parent's (shared/prep/matrix.ts) */
+  matrixWarning?: MatrixWarning;
 }
 
 /** One analyte of a mix: its parent, its planned aliquot, the aliquots delivered and its own concentration and budget. */
