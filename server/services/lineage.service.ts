@@ -9,7 +9,7 @@
  */
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { CalcError, D } from '../../shared/calc/index.ts';
-import { pistonSetting, pistonStepMl, proposeSeries, type SeriesWare } from '../../shared/calc/dilution.ts';
+import { pistonSetting, pistonStepMl, proposeIntermediate, proposeSeries, type SeriesWare } from '../../shared/calc/dilution.ts';
 import { classATolerance, formatPreparationId, parsePreparationId } from '../../shared/prep/index.ts';
 import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type {
@@ -368,15 +368,18 @@ export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor,
   const parent = await usableParent(parentRow, actor, settings, today, 'parentKey');
   const ware = await seriesWare();
   const minAliquotMl = input.minAliquotMl ?? '1';
-  const levels = proposeSeries({
+  const request = {
     parentConcentration: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
     levels: input.levels,
     pipettes: ware.pipettes.filter((p) => p.toleranceMl),
     flasks: ware.flasks.filter((f) => f.toleranceMl),
     minAliquotMl,
     fullerBudget: { betaPerK: dilutionBeta(null).betaPerK }, // expected u_r as the levels will be computed (dilution-2)
-  });
-  return { parent, minAliquotMl, levels };
+  };
+  const levels = proposeSeries(request);
+  // levels out of reach of one pipette and flask: propose the first dilution they can come from (planned by the chemist)
+  const intermediate = proposeIntermediate(request, levels);
+  return { parent, minAliquotMl, levels, ...(intermediate ? { intermediate } : {}) };
 }
 
 async function seriesDto(s: Series): Promise<SeriesDto> {

@@ -366,3 +366,72 @@ export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
     return { target, choice: clean[0]!, alternatives: clean.slice(1, 6) };
   });
 }
+
+// ------------------------------------------------------------------ intermediate step
+
+export interface IntermediateProposal {
+  /** the planned dilution of the parent the levels are then made from */
+  target: { value: string; unit: string };
+  choice: SeriesChoice;
+  /** the levels (by index in the request) that need it, with the pair each then takes from the intermediate */
+  levels: Array<{ index: number; proposal: SeriesLevelProposal }>;
+  message: string;
+}
+
+/**
+ * When some levels lie too far below the parent for any one pipette and flask (µg/L from 1000 mg/L), a first
+ * dilution of the parent that every such level can then be made from [common practice: serial dilution, no step
+ * beyond what one pipette and flask give]. Candidates are the concentrations an exact pair gives from the parent
+ * (c1·Va/Vf); the one that reaches the most of those levels wins, then exactly, then with the lowest summed expected
+ * u_r of the levels (the intermediate's own u_r enters each level through its parent term), then the highest
+ * concentration (the least diluted, the most stable). Returns null when no level needs one or no candidate helps.
+ */
+export function proposeIntermediate(i: ProposeSeriesInput, proposals: SeriesLevelProposal[] = proposeSeries(i)): IntermediateProposal | null {
+  const c1 = positive(i.parentConcentration.value, 'Parent concentration');
+  const unit = i.parentConcentration.unit;
+  const needing = proposals
+    .map((p, index) => ({ p, index }))
+    .filter(({ p, index }) => !p.choice && i.levels[index]!.unit === unit && new D(i.levels[index]!.value).lt(c1));
+  if (!needing.length) return null;
+  // candidate concentrations: every exact pair from the parent, at one tenth of the parent or below
+  const levelsAbove = needing.map(({ index }) => new D(i.levels[index]!.value));
+  const lowest = D.min(...levelsAbove);
+  const candidates = new Map<string, SeriesChoice>();
+  const flasks = i.flasks.filter((f) => f.status === 'in_service' && f.kind === 'volumetric_flask');
+  const pipettes = i.pipettes.filter((p) => p.status === 'in_service' && p.kind === 'bulb_pipette');
+  for (const f of flasks) {
+    for (const p of pipettes) {
+      const c = c1.mul(p.nominalVolumeMl).div(f.nominalVolumeMl);
+      if (c.gt(c1.div(10)) || c.lte(lowest)) continue;
+      const key = c.toSignificantDigits(12).toFixed();
+      if (!candidates.has(key)) {
+        const [first] = proposeSeries({ ...i, levels: [{ value: key, unit }] });
+        if (first?.choice?.exact) candidates.set(key, first.choice);
+      }
+    }
+  }
+  let best: { key: string; choice: SeriesChoice; reached: Array<{ index: number; proposal: SeriesLevelProposal }>; exact: number; sumU: Dec } | null = null;
+  for (const [key, choice] of candidates) {
+    const parentU = choice.expectedRelativeU ? new D(choice.expectedRelativeU).mul(key) : undefined;
+    const sub = proposeSeries({ ...i, parentConcentration: { value: key, unit, ...(parentU ? { standardUncertainty: parentU } : {}) }, levels: needing.map(({ index }) => i.levels[index]!) });
+    const reached = sub.map((proposal, k) => ({ index: needing[k]!.index, proposal })).filter((x) => x.proposal.choice);
+    const exact = reached.filter((x) => x.proposal.choice!.exact).length;
+    const sumU = reached.reduce((a, x) => a.plus(x.proposal.choice!.expectedRelativeU ?? 1), new D(0));
+    const better =
+      !best ||
+      reached.length > best.reached.length ||
+      (reached.length === best.reached.length && (exact > best.exact || (exact === best.exact && (sumU.lt(best.sumU) || (sumU.eq(best.sumU) && new D(key).gt(best.key))))));
+    if (better) best = { key, choice, reached, exact, sumU };
+  }
+  if (!best || !best.reached.length) return null;
+  const left = needing.length - best.reached.length;
+  return {
+    target: { value: best.key, unit },
+    choice: best.choice,
+    levels: best.reached,
+    message:
+      `Too far below ${c1.toString()} ${unit} for one pipette and flask: first dilute ${best.choice.aliquotMl} mL of the parent with ${best.choice.pipette.identifier} into ${best.choice.finalMl} mL (${best.choice.flask.identifier}) to ${best.key} ${unit}, ` +
+      `then make ${best.reached.length === 1 ? 'that level' : `those ${best.reached.length} levels`} from it once it is verified` +
+      (left ? `; ${left} level(s) remain out of reach` : ''),
+  };
+}

@@ -8,12 +8,12 @@ import { z } from 'zod';
 import Decimal from 'decimal.js';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 import { CONCENTRATION_UNITS, isConcentrationUnit } from '../calc/units.ts';
-import type { DilutionResult, SeriesLevelProposal } from '../calc/dilution.ts';
+import type { DilutionResult, IntermediateProposal, SeriesLevelProposal } from '../calc/dilution.ts';
 import type { VolumetricWare } from './inventory.ts';
 import type { PreparationDetail } from './preparations.ts';
 import type { GravimetricDilutionSection } from './gravimetric.ts';
 
-export type { DilutionResult, SeriesLevelProposal };
+export type { DilutionResult, IntermediateProposal, SeriesLevelProposal };
 
 export const PREPARATION_KINDS = ['stock', 'dilution', 'series_level', 'mix'] as const;
 export type PreparationKind = (typeof PREPARATION_KINDS)[number];
@@ -269,6 +269,8 @@ export interface SeriesProposalResponse {
   parent: ParentSnapshot;
   minAliquotMl: string;
   levels: SeriesLevelProposal[];
+  /** when levels lie too far below the parent: a first dilution to plan (POST /api/preparations/:parent/dilutions) that those levels then come from */
+  intermediate?: IntermediateProposal;
 }
 
 export interface CreateSeriesResponse {

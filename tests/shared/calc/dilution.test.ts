@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
 import { D, CalcError, rectangular, triangular } from '../../../shared/calc/index.ts';
-import { DILUTION_TEMPERATURE_HALF_WIDTH_C, gravimetricDilution, pistonSetting, repeatabilityFromTolerance, pistonStepMl, proposeSeries, volumetricDilution, type SeriesWare } from '../../../shared/calc/dilution.ts';
+import { DILUTION_TEMPERATURE_HALF_WIDTH_C, gravimetricDilution, pistonSetting, proposeIntermediate, repeatabilityFromTolerance, pistonStepMl, proposeSeries, volumetricDilution, type SeriesWare } from '../../../shared/calc/dilution.ts';
 import { expectClose } from '../../helpers/decimal.ts';
 
 // METROLOGY §5.5 worked example [C]: 1.000 mL ISO 648 class A (±0.008, triangular) into 100 mL (±0.10,
@@ -234,5 +234,48 @@ describe('volumetric dilution, fuller budget', () => {
     const full = proposeSeries({ ...args, fullerBudget: { betaPerK: '0.00021' } })[0]!.choice!;
     expectClose(plain.expectedRelativeU!, workedExample().relative, '1e-12');
     expectClose(full.expectedRelativeU!, fuller().relative, '1e-12');
+  });
+});
+
+// An intermediate step for levels too far below the parent (issue 16 §5): µg/L levels from a 1000 mg/L stock need
+// a dilution factor of 10⁵, beyond any one pipette and flask (1 mL into 1000 mL is 10⁻³) [common practice: serial
+// dilution]. Expected concentrations are c1·Va/Vf exactly [C, arithmetic].
+describe('intermediate dilution step', () => {
+  const glass: SeriesWare[] = [
+    { id: 1, identifier: 'BP-1-01', kind: 'bulb_pipette', nominalVolumeMl: '1', class: 'A', toleranceMl: '0.008', status: 'in_service' },
+    { id: 2, identifier: 'BP-2-01', kind: 'bulb_pipette', nominalVolumeMl: '2', class: 'A', toleranceMl: '0.010', status: 'in_service' },
+    { id: 3, identifier: 'BP-10-01', kind: 'bulb_pipette', nominalVolumeMl: '10', class: 'A', toleranceMl: '0.020', status: 'in_service' },
+  ];
+  const flasks: SeriesWare[] = [
+    { id: 4, identifier: 'VF-100-01', kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', status: 'in_service' },
+    { id: 5, identifier: 'VF-1000-01', kind: 'volumetric_flask', nominalVolumeMl: '1000', class: 'A', toleranceMl: '0.40', status: 'in_service' },
+  ];
+  const input = {
+    parentConcentration: { value: '1000', unit: 'mg/L', standardUncertainty: '1.3' },
+    levels: [{ value: '100', unit: 'mg/L' }, { value: '0.01', unit: 'mg/L' }, { value: '0.02', unit: 'mg/L' }],
+    pipettes: glass,
+    flasks,
+  };
+
+  it('proposes a first dilution that the 10 and 20 µg/L levels then come from; the reachable level needs none', () => {
+    const direct = proposeSeries(input);
+    expect(direct[0]!.choice).not.toBeNull(); // 10 mL into 100 mL
+    expect(direct[1]!.choice).toBeNull();
+    expect(direct[2]!.choice).toBeNull();
+    const step = proposeIntermediate(input, direct)!;
+    expect(step).not.toBeNull();
+    expect(step.levels.map((l) => l.index)).toEqual([1, 2]);
+    // the intermediate is exactly what its pair gives from the parent, and each level exactly what its pair gives from it
+    expect(new D(step.target.value).eq(new D('1000').mul(step.choice.aliquotMl).div(step.choice.finalMl))).toBe(true);
+    expect(step.choice.exact).toBe(true);
+    for (const l of step.levels) {
+      const c = l.proposal.choice!;
+      expect(new D(step.target.value).mul(c.aliquotMl).div(c.finalMl).eq(l.proposal.target.value)).toBe(true);
+    }
+    expect(step.message).toMatch(/first dilute .* mL of the parent with BP-\d+-01 into \d+ mL \(VF-\d+-01\) to [\d.]+ mg\/L, then make those 2 levels from it once it is verified/);
+  });
+
+  it('is null when every level is reachable directly', () => {
+    expect(proposeIntermediate({ ...input, levels: [{ value: '10', unit: 'mg/L' }] })).toBeNull();
   });
 });
