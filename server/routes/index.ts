@@ -18,6 +18,7 @@ import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
 import { sessionsRouter } from './sessions.routes.ts';
 import { expiryRouter } from './expiry.routes.ts';
+import { worklistsRouter } from './worklists.routes.ts';
 
 /** Everything under /api. Each route states its role check (requireAuth / requireRole). */
 export function apiRouter(config: Config): Router {
@@ -40,5 +41,6 @@ export function apiRouter(config: Config): Router {
   router.use(outboxRouter());
   router.use(traceRouter(config));
   router.use(auditRouter());
+  router.use(worklistsRouter());
   return router;
 }

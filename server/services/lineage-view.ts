@@ -6,17 +6,22 @@
  */
 import { QueryTypes, type Transaction } from 'sequelize';
 import { rectangular, triangular } from '../../shared/calc/index.ts';
-import { volumetricDilution, type DilutionResult } from '../../shared/calc/dilution.ts';
+import { DILUTION_TEMPERATURE_HALF_WIDTH_C, repeatabilityFromTolerance, volumetricDilution, type DilutionResult } from '../../shared/calc/dilution.ts';
 import { classATolerance, computeExpiry, type ExpiryResult } from '../../shared/prep/index.ts';
 import { selectStabilityRule } from '../../shared/prep/stability-rules.ts';
 import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type { Aliquot, DilutionSection, LineageSection, ParentSnapshot, PreparationKind } from '../../shared/schemas/lineage.ts';
 import { DEFAULT_STABILITY_BASIS, DEFAULT_STABILITY_DAYS, type LabSettings } from '../../shared/schemas/settings.ts';
-import { DilutionAliquot, MakeUp, Preparation, PreparationParent, Series, User } from '../db/models/index.ts';
+import { DilutionAliquot, MakeUp, Preparation, PreparationParent, Series, Solvent, User } from '../db/models/index.ts';
+import { solventMatrixWarning, type MatrixWarning } from '../../shared/prep/matrix.ts';
 import { AppError } from '../errors/app-error.ts';
 import { gravimetricResultOf, gravimetricSection, isGravimetricPlan } from './gravimetric-calc.ts';
 
-export const DILUTION_CALC_VERSION = 'dilution-1 (METROLOGY §5.5: c2 = c1·Vp/Vf, relative variances add, no per-item temperature term)';
+/** The budget of dilutions written before dilution-2: the parent and the two tolerances only. */
+export const DILUTION_CALC_VERSION_1 = 'dilution-1 (METROLOGY §5.5: c2 = c1·Vp/Vf, relative variances add, no per-item temperature term)';
+/** Written from now on: the tolerances plus each item's repeatability and the aliquot-to-final temperature difference (shared/calc/dilution.ts header). */
+export const DILUTION_CALC_VERSION =
+  'dilution-2 (METROLOGY §5.5: c2 = c1·Vp/Vf·(1 + β·ΔT); tolerances, repeatability a/√6 from each tolerance, ΔT ±4 °C rectangular as QUAM A1)';
 
 /**
  * kind and series of committed preparations, keyed on the database (Sequelize instance) and the preparation id.
@@ -65,16 +70,52 @@ export function flaskUncertainty(w: WareDto): { standardUncertainty: string; bas
   return { standardUncertainty: triangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${w.identifier}, triangular` };
 }
 
-export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: WareDto, flask: WareDto, rounding: LabSettings['roundingRule']): DilutionResult {
+/** The tolerance a pipette's or flask's u is taken from (recorded, else the class A table). */
+function toleranceOf(w: WareDto, kind: 'pipette' | 'flask'): string | undefined {
+  if (w.toleranceMl) return w.toleranceMl;
+  if (w.class !== 'A') return undefined;
+  if (kind === 'pipette' && w.kind !== 'bulb_pipette') return undefined;
+  return classATolerance(kind, w.nominalVolumeMl)?.toleranceMl;
+}
+
+/**
+ * A volumetric dilution's result. With `fuller` (dilution-2, every record written from now on) the budget also
+ * holds each item's repeatability and the temperature difference between aliquot and final solution, with the
+ * final solution's β; without it (dilution-1) only the parent and the two tolerances, as records written before.
+ */
+export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: WareDto, flask: WareDto, rounding: LabSettings['roundingRule'], fuller?: { betaPerK: string; betaSource: string }): DilutionResult {
   const up = pipetteUncertainty(pipette);
   const uf = flaskUncertainty(flask);
   if (!up || !uf) throw AppError.validation(`${!up ? pipette.identifier : flask.identifier} has no tolerance recorded`);
+  const tp = toleranceOf(pipette, 'pipette')!;
+  const tf = toleranceOf(flask, 'flask')!;
   return volumetricDilution({
     parent: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
     aliquot: { volumeMl: aliquotMl, standardUncertainty: up.standardUncertainty },
     final: { volumeMl: flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty },
+    ...(fuller
+      ? {
+          repeatability: {
+            aliquotMl: repeatabilityFromTolerance(tp).toSignificantDigits(20).toFixed(),
+            finalMl: repeatabilityFromTolerance(tf).toSignificantDigits(20).toFixed(),
+            aliquotLabel: `Aliquot repeatability (from the ±${tp} mL tolerance of ${pipette.identifier}, triangular a/√6; common practice)`,
+            finalLabel: `Flask filling repeatability (from the ±${tf} mL tolerance of ${flask.identifier}, triangular a/√6; common practice)`,
+          },
+          temperature: {
+            betaPerK: fuller.betaPerK,
+            standardUncertaintyC: rectangular(DILUTION_TEMPERATURE_HALF_WIDTH_C).toSignificantDigits(20).toFixed(),
+            label: `Temperature difference, aliquot to final solution (0 ± ${DILUTION_TEMPERATURE_HALF_WIDTH_C} °C rectangular, QUAM A1; β = ${fuller.betaPerK} /K, ${fuller.betaSource})`,
+          },
+        }
+      : {}),
     rounding,
   });
+}
+
+/** β for the fuller budget: the make-up solvent's, else water's 2.1 × 10⁻⁴ /K (QUAM A1) as the stock uses. */
+export function dilutionBeta(solvent: { name: string; expansionCoefficientPerK?: string | null } | null | undefined): { betaPerK: string; betaSource: string } {
+  if (solvent?.expansionCoefficientPerK) return { betaPerK: solvent.expansionCoefficientPerK, betaSource: `of ${solvent.name}` };
+  return { betaPerK: '0.00021', betaSource: 'water, QUAM A1' };
 }
 
 /** The newest aliquot that no other aliquot supersedes. */
@@ -91,7 +132,7 @@ export type VolumetricDilutionResult = NonNullable<DilutionSection['result']>;
  * (storeDilutionResult) is returned when its basedOn names the current aliquot and make-up, so a later change of
  * the lab's rounding rule cannot change a signed record; rows without a stored result (legacy) are computed.
  */
-export async function dilutionResultOf(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction?: Transaction): Promise<VolumetricDilutionResult | null> {
+export async function dilutionResultOf(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>, transaction?: Transaction, forWrite = false): Promise<VolumetricDilutionResult | null> {
   if (isGravimetricPlan(p)) return null; // a gravimetric dilution's result: gravimetricResultOf (gravimetric-calc)
   const t = transaction ? { transaction } : {};
   const [link, aliquots, makeUp] = await Promise.all([
@@ -103,7 +144,15 @@ export async function dilutionResultOf(p: Preparation, settings: Pick<LabSetting
   if (!link || !a || !makeUp || !link.snapshot.concentration) return null;
   const stored = p.dilutionResult as VolumetricDilutionResult | null | undefined;
   if (stored && stored.basedOn && stored.basedOn.aliquotId === a.id && stored.basedOn.makeUpId === makeUp.id) return stored;
-  const r = dilutionOf(link.snapshot, a.volumeMl, a.pipetteSnapshot, makeUp.flaskSnapshot, settings.roundingRule);
+  // Old records keep their budget: a result is computed with the fuller budget (dilution-2) only at the write that
+  // stores it (storeDilutionResult). A row read without a stored result was written before results were stored
+  // (migration 0011), hence before dilution-2, and is computed as it was then (dilution-1), so neither its number
+  // nor its signed hash moves (tests/server/dilution-budget-version.test.ts).
+  if (!forWrite) {
+    const r1 = dilutionOf(link.snapshot, a.volumeMl, a.pipetteSnapshot, makeUp.flaskSnapshot, settings.roundingRule);
+    return { ...r1, calcVersion: DILUTION_CALC_VERSION_1, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
+  }
+  const r = dilutionOf(link.snapshot, a.volumeMl, a.pipetteSnapshot, makeUp.flaskSnapshot, settings.roundingRule, dilutionBeta(makeUp.solventSnapshot));
   return { ...r, calcVersion: DILUTION_CALC_VERSION, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
 }
 
@@ -116,7 +165,7 @@ export async function storeDilutionResult(p: Preparation, settings: Pick<LabSett
   const { kind } = await lineageRow(p.id, transaction);
   if (kind === 'mix') return (await import('./mix-view.ts')).storeMixResults(p, settings, transaction); // every component's result
   if (!isDilutionKind(kind)) return [];
-  const result = await dilutionResultOf(p, settings, transaction);
+  const result = await dilutionResultOf(p, settings, transaction, true);
   if (!result) return [];
   const before = p.concentrationDisplay;
   p.dilutionResult = result as unknown as Record<string, unknown>;
@@ -199,6 +248,18 @@ function aliquotDto(a: DilutionAliquot, supersededBy: Map<number, number>, users
 }
 
 /** The lineage section of GET /api/preparations/:key. */
+/** The dilution's solvent (its latest make-up, else the solvent planned) against the parent's latest make-up. */
+export async function matrixWarningOf(p: Preparation, parentId: number, parentIdentifier: string): Promise<MatrixWarning | null> {
+  const [own, parentMakeUp] = await Promise.all([
+    MakeUp.findOne({ where: { preparationId: p.id }, order: [['id', 'DESC']] }),
+    MakeUp.findOne({ where: { preparationId: parentId }, order: [['id', 'DESC']] }),
+  ]);
+  let name = own?.solventSnapshot?.name ?? null;
+  const plannedId = (p.inputs as unknown as { solventId?: number }).solventId;
+  if (!name && plannedId !== undefined) name = (await Solvent.findByPk(plannedId))?.name ?? null;
+  return solventMatrixWarning({ identifier: parentIdentifier, solventName: parentMakeUp?.solventSnapshot?.name ?? null }, name);
+}
+
 export async function lineageSection(p: Preparation, settings: Pick<LabSettings, 'roundingRule'>): Promise<LineageSection> {
   const { kind, seriesId } = await lineageRow(p.id);
   const childLinks = await PreparationParent.findAll({ where: { parentPreparationId: p.id }, order: [['id', 'ASC']] });
@@ -235,6 +296,8 @@ export async function lineageSection(p: Preparation, settings: Pick<LabSettings,
   };
   const result = await dilutionResultOf(p, settings);
   if (result) dilution.result = result;
+  const warning = await matrixWarningOf(p, link.parentPreparationId, link.snapshot.identifier);
+  if (warning) dilution.matrixWarning = warning;
   if (seriesId !== null) {
     const s = await Series.findByPk(seriesId);
     if (s) dilution.series = { id: s.id, identifier: s.identifier };

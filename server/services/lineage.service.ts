@@ -9,7 +9,7 @@
  */
 import { Op, QueryTypes, type Transaction } from 'sequelize';
 import { CalcError, D } from '../../shared/calc/index.ts';
-import { pistonSetting, pistonStepMl, proposeSeries, type SeriesWare } from '../../shared/calc/dilution.ts';
+import { pistonSetting, pistonStepMl, proposeIntermediate, proposeSeries, type SeriesWare } from '../../shared/calc/dilution.ts';
 import { classATolerance, formatPreparationId, parsePreparationId } from '../../shared/prep/index.ts';
 import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type {
@@ -35,7 +35,7 @@ import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
-import { activeAliquot, concentrationOf, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
+import { activeAliquot, concentrationOf, dilutionBeta, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
 const MAX_TARGET_DEVIATION = new D('0.05');
@@ -135,7 +135,7 @@ async function planLevel(parent: ParentSnapshot, level: { target: { value: strin
   }
   let planned;
   try {
-    planned = dilutionOf(parent, aliquotMl, pipette, flask, settings.roundingRule);
+    planned = dilutionOf(parent, aliquotMl, pipette, flask, settings.roundingRule, dilutionBeta(null)); // the plan's expected budget: dilution-2, water's β until the solvent is known
   } catch (e) {
     if (e instanceof CalcError) throw AppError.validation(e.message, { [`${prefix}target`]: e.message });
     throw e;
@@ -368,14 +368,18 @@ export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor,
   const parent = await usableParent(parentRow, actor, settings, today, 'parentKey');
   const ware = await seriesWare();
   const minAliquotMl = input.minAliquotMl ?? '1';
-  const levels = proposeSeries({
+  const request = {
     parentConcentration: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
     levels: input.levels,
     pipettes: ware.pipettes.filter((p) => p.toleranceMl),
     flasks: ware.flasks.filter((f) => f.toleranceMl),
     minAliquotMl,
-  });
-  return { parent, minAliquotMl, levels };
+    fullerBudget: { betaPerK: dilutionBeta(null).betaPerK }, // expected u_r as the levels will be computed (dilution-2)
+  };
+  const levels = proposeSeries(request);
+  // levels out of reach of one pipette and flask: propose the first dilution they can come from (planned by the chemist)
+  const intermediate = proposeIntermediate(request, levels);
+  return { parent, minAliquotMl, levels, ...(intermediate ? { intermediate } : {}) };
 }
 
 async function seriesDto(s: Series): Promise<SeriesDto> {

@@ -549,6 +549,11 @@ export async function recordSeal(p: Preparation): Promise<SealBroken | null> {
   return fullSealCheck(p, st.sigs, st, shownColumns);
 }
 
+/** Why `user` may not sign `p` "verified" now (null: they may); used by the home page's work lists. */
+export async function verifyRefusal(p: Preparation, user: { id: number; role: Role }): Promise<string | null> {
+  return refusal(await loadState(p), 'verified', user)?.message ?? null;
+}
+
 // ------------------------------------------------------------------ password (two components, ES-04)
 
 const LOCKED = () => new AppError('account_locked', 423, 'This account is locked after repeated failed passwords; ask an administrator to unlock it');

@@ -8,6 +8,23 @@
  * rectangular a/√3 for piston pipettes (ISO 8655 maximum permissible error, conservative).
  * Validity: first-order GUM; one temperature for the whole dilution. Units: volumes mL, masses as read
  * (any one unit), densities g/mL, mass fraction mg/kg, concentrations in the parent's unit.
+ *
+ * The fuller volumetric budget (optional inputs `repeatability` and `temperature`; the server's calc version
+ * "dilution-2") adds three rows to the three above:
+ * - repeatability of the delivered aliquot and of filling the flask to the mark (independent of the calibration
+ *   term, METROLOGY §5.5 "repeatability components are independent"). ISO 648 and ISO 1042 state only a maximum
+ *   permissible error; without the lab's own fill-and-weigh s the repeatability is taken from the same tolerance
+ *   as a triangular distribution, u = a/√6 (repeatabilityFromTolerance) [common practice]. Triangular, not
+ *   rectangular: fills by a trained analyst cluster at the mark and fall well inside the limits, which is the
+ *   reason QUAM A1 gives for treating the tolerance itself as triangular; a/√6 (0.041 mL for a 100 mL ±0.10 mL
+ *   flask) is already twice the fill-and-weigh s = 0.02 mL QUAM A1 measured (METROLOGY §5.3), so the
+ *   rectangular a/√3 would only inflate it further. For piston pipettes the ISO 8655-2 random-error limit at
+ *   nominal is about 0.4 × the systematic MPE or less (METROLOGY §4.5, unverified there), which a/√6 = 0.408·a covers.
+ * - temperature: the liquid's expansion cancels in Vp/Vf only when the aliquot and the final solution are at
+ *   the same temperature (METROLOGY §5.5). What remains is their difference ΔT = t_final − t_aliquot, modelled as
+ *   0 ± half-width, rectangular, with the final solution's cubic expansion coefficient β: c2·(1 + β·ΔT).
+ *   The half-width is the ±4 °C QUAM A1 allows for the laboratory's temperature (the stock's uncorrected
+ *   temperature term, solution-temperature.ts) [QUAM A1; conservative when both stand in the same room].
  */
 import { D, type Dec, type DecInput, toDec } from './decimal.ts';
 import { CalcError } from './errors.ts';
@@ -82,8 +99,23 @@ export interface VolumetricDilutionInput {
   aliquot: { volumeMl: DecInput; standardUncertainty: DecInput };
   /** final (flask) volume, mL, with its standard uncertainty */
   final: { volumeMl: DecInput; standardUncertainty: DecInput };
+  /** standard uncertainties (mL) of the aliquot's delivery and the flask's filling from repeat to repeat; omitted: not in the budget */
+  repeatability?: { aliquotMl: DecInput; finalMl: DecInput; aliquotLabel?: string; finalLabel?: string };
+  /** the temperature difference between aliquot and final solution, 0 ± u(ΔT) °C, with the liquid's β (1/K); omitted: not in the budget */
+  temperature?: { betaPerK: DecInput; standardUncertaintyC: DecInput; label?: string };
   k?: DecInput;
   rounding?: RoundingRule;
+}
+
+/** ±4 °C between the aliquot and the final solution, rectangular (QUAM A1's laboratory temperature allowance). */
+export const DILUTION_TEMPERATURE_HALF_WIDTH_C = '4';
+
+/**
+ * Repeatability of a glass or piston volume from its tolerance a, when the lab has no fill-and-weigh s:
+ * triangular a/√6 [common practice; reasons in the header].
+ */
+export function repeatabilityFromTolerance(toleranceMl: DecInput): Dec {
+  return triangular(toleranceMl);
 }
 
 /** c2 = c1·Vp/Vf (METROLOGY §5.5); the parent's uncertainty enters the budget as an input. */
@@ -99,7 +131,21 @@ export function volumetricDilution(i: VolumetricDilutionInput): DilutionResult {
     aliquot: { value: i.aliquot.volumeMl, standardUncertainty: i.aliquot.standardUncertainty, label: 'Aliquot volume', unit: 'mL' },
     final: { value: i.final.volumeMl, standardUncertainty: i.final.standardUncertainty, label: 'Final volume', unit: 'mL' },
   };
-  const r = propagate({ model: (x) => x.parent!.mul(x.aliquot!).div(x.final!), inputs });
+  if (i.repeatability) {
+    inputs.aliquotRepeatability = { value: '0', standardUncertainty: i.repeatability.aliquotMl, label: i.repeatability.aliquotLabel ?? 'Aliquot repeatability', unit: 'mL' };
+    inputs.finalRepeatability = { value: '0', standardUncertainty: i.repeatability.finalMl, label: i.repeatability.finalLabel ?? 'Flask filling repeatability', unit: 'mL' };
+  }
+  const beta = i.temperature ? toDec(i.temperature.betaPerK, 'expansion coefficient') : new D(0);
+  if (i.temperature) {
+    inputs.temperature = { value: '0', standardUncertainty: i.temperature.standardUncertaintyC, label: i.temperature.label ?? 'Temperature difference, aliquot to final solution', unit: '°C' };
+  }
+  const model = (x: Record<string, Dec>) => {
+    const vp = x.aliquot!.plus(x.aliquotRepeatability ?? 0);
+    const vf = x.final!.plus(x.finalRepeatability ?? 0);
+    const t = x.temperature ? new D(1).plus(beta.mul(x.temperature)) : new D(1);
+    return x.parent!.mul(vp).div(vf).mul(t);
+  };
+  const r = propagate({ model, inputs });
   return finish(r.value, r.standardUncertainty, i.parent.unit, r.budget, i.k ?? '2', i.rounding ?? 'half-even');
 }
 
@@ -217,6 +263,8 @@ export interface ProposeSeriesInput {
   minAliquotMl?: DecInput;
   /** largest |deviation| of an inexact pair (default 0.05 = 5 %) */
   maxDeviation?: DecInput;
+  /** the fuller budget (dilution-2): repeatability from each tolerance and the temperature term with this β (1/K) */
+  fullerBudget?: { betaPerK: DecInput };
 }
 
 const EXACT = new D('1e-12');
@@ -281,7 +329,15 @@ export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
         if (dev.abs().gt(maxDev)) continue;
         const up = tolU(p);
         // a piston pipette's tolerance is stated at nominal; relative error grows at lower settings (ISO 8655): use the absolute value
-        const urExpected = up && uf ? ur1.pow(2).plus(up.div(va).pow(2)).plus(uf.div(vf).pow(2)).sqrt() : null;
+        let urExpected = up && uf ? ur1.pow(2).plus(up.div(va).pow(2)).plus(uf.div(vf).pow(2)) : null;
+        if (urExpected && i.fullerBudget) {
+          // repeatability a/√6 of each item and β·u(ΔT), as volumetricDilution's fuller budget (header)
+          const rp = repeatabilityFromTolerance(p.toleranceMl!).div(va);
+          const rf = repeatabilityFromTolerance(f.toleranceMl!).div(vf);
+          const rt = toDec(i.fullerBudget.betaPerK, 'expansion coefficient').mul(rectangular(DILUTION_TEMPERATURE_HALF_WIDTH_C));
+          urExpected = urExpected.plus(rp.pow(2)).plus(rf.pow(2)).plus(rt.pow(2));
+        }
+        if (urExpected) urExpected = urExpected.sqrt();
         const exact = dev.abs().lt(EXACT);
         const classRank = (p.class === 'A' ? 0 : 1) + (f.class === 'A' ? 0 : 1);
         options.push({
@@ -309,4 +365,73 @@ export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
     }
     return { target, choice: clean[0]!, alternatives: clean.slice(1, 6) };
   });
+}
+
+// ------------------------------------------------------------------ intermediate step
+
+export interface IntermediateProposal {
+  /** the planned dilution of the parent the levels are then made from */
+  target: { value: string; unit: string };
+  choice: SeriesChoice;
+  /** the levels (by index in the request) that need it, with the pair each then takes from the intermediate */
+  levels: Array<{ index: number; proposal: SeriesLevelProposal }>;
+  message: string;
+}
+
+/**
+ * When some levels lie too far below the parent for any one pipette and flask (µg/L from 1000 mg/L), a first
+ * dilution of the parent that every such level can then be made from [common practice: serial dilution, no step
+ * beyond what one pipette and flask give]. Candidates are the concentrations an exact pair gives from the parent
+ * (c1·Va/Vf); the one that reaches the most of those levels wins, then exactly, then with the lowest summed expected
+ * u_r of the levels (the intermediate's own u_r enters each level through its parent term), then the highest
+ * concentration (the least diluted, the most stable). Returns null when no level needs one or no candidate helps.
+ */
+export function proposeIntermediate(i: ProposeSeriesInput, proposals: SeriesLevelProposal[] = proposeSeries(i)): IntermediateProposal | null {
+  const c1 = positive(i.parentConcentration.value, 'Parent concentration');
+  const unit = i.parentConcentration.unit;
+  const needing = proposals
+    .map((p, index) => ({ p, index }))
+    .filter(({ p, index }) => !p.choice && i.levels[index]!.unit === unit && new D(i.levels[index]!.value).lt(c1));
+  if (!needing.length) return null;
+  // candidate concentrations: every exact pair from the parent, at one tenth of the parent or below
+  const levelsAbove = needing.map(({ index }) => new D(i.levels[index]!.value));
+  const lowest = D.min(...levelsAbove);
+  const candidates = new Map<string, SeriesChoice>();
+  const flasks = i.flasks.filter((f) => f.status === 'in_service' && f.kind === 'volumetric_flask');
+  const pipettes = i.pipettes.filter((p) => p.status === 'in_service' && p.kind === 'bulb_pipette');
+  for (const f of flasks) {
+    for (const p of pipettes) {
+      const c = c1.mul(p.nominalVolumeMl).div(f.nominalVolumeMl);
+      if (c.gt(c1.div(10)) || c.lte(lowest)) continue;
+      const key = c.toSignificantDigits(12).toFixed();
+      if (!candidates.has(key)) {
+        const [first] = proposeSeries({ ...i, levels: [{ value: key, unit }] });
+        if (first?.choice?.exact) candidates.set(key, first.choice);
+      }
+    }
+  }
+  let best: { key: string; choice: SeriesChoice; reached: Array<{ index: number; proposal: SeriesLevelProposal }>; exact: number; sumU: Dec } | null = null;
+  for (const [key, choice] of candidates) {
+    const parentU = choice.expectedRelativeU ? new D(choice.expectedRelativeU).mul(key) : undefined;
+    const sub = proposeSeries({ ...i, parentConcentration: { value: key, unit, ...(parentU ? { standardUncertainty: parentU } : {}) }, levels: needing.map(({ index }) => i.levels[index]!) });
+    const reached = sub.map((proposal, k) => ({ index: needing[k]!.index, proposal })).filter((x) => x.proposal.choice);
+    const exact = reached.filter((x) => x.proposal.choice!.exact).length;
+    const sumU = reached.reduce((a, x) => a.plus(x.proposal.choice!.expectedRelativeU ?? 1), new D(0));
+    const better =
+      !best ||
+      reached.length > best.reached.length ||
+      (reached.length === best.reached.length && (exact > best.exact || (exact === best.exact && (sumU.lt(best.sumU) || (sumU.eq(best.sumU) && new D(key).gt(best.key))))));
+    if (better) best = { key, choice, reached, exact, sumU };
+  }
+  if (!best || !best.reached.length) return null;
+  const left = needing.length - best.reached.length;
+  return {
+    target: { value: best.key, unit },
+    choice: best.choice,
+    levels: best.reached,
+    message:
+      `Too far below ${c1.toString()} ${unit} for one pipette and flask: first dilute ${best.choice.aliquotMl} mL of the parent with ${best.choice.pipette.identifier} into ${best.choice.finalMl} mL (${best.choice.flask.identifier}) to ${best.key} ${unit}, ` +
+      `then make ${best.reached.length === 1 ? 'that level' : `those ${best.reached.length} levels`} from it once it is verified` +
+      (left ? `; ${left} level(s) remain out of reach` : ''),
+  };
 }

@@ -250,6 +250,16 @@ export interface GravimetricFactorModel {
   inputs: Record<string, { value: Dec; standardUncertainty: Dec; label: string }>;
 }
 
+/**
+ * Where an atomic weight in a budget comes from: the IUPAC/CIAAW standard atomic weight (abridged value, its ±
+ * taken as the half-width of a rectangular distribution, QUAM convention), e.g. "Atomic weight of Pb: standard
+ * atomic weight 207.2 ± 1.1 (IUPAC/CIAAW abridged; interval as rectangular half-width, u = a/√3)".
+ */
+export function atomicWeightLabel(el: string): string {
+  const w = ATOMIC_WEIGHTS[el]!;
+  return `Atomic weight of ${el}: standard atomic weight ${w.value.toString()} ± ${w.halfWidth.toString()} (IUPAC/CIAAW abridged; interval as rectangular half-width, u = a/√3)`;
+}
+
 /** Build the function w(atomic weights) = n·M(analyte)/M(compound). */
 export function gravimetricFactorModel(formula: string, analyteFormula?: string): GravimetricFactorModel {
   const compound = parseFormula(formula);
@@ -274,7 +284,7 @@ export function gravimetricFactorModel(formula: string, analyteFormula?: string)
     n.mul(molarMassFromAtoms(analyte.atoms, weights)).div(molarMassFromAtoms(compound.atoms, weights));
   const inputs: GravimetricFactorModel['inputs'] = {};
   for (const el of elements) {
-    inputs[el] = { value: ATOMIC_WEIGHTS[el].value, standardUncertainty: atomicWeightUncertainty(el), label: `Atomic weight of ${el}` };
+    inputs[el] = { value: ATOMIC_WEIGHTS[el].value, standardUncertainty: atomicWeightUncertainty(el), label: atomicWeightLabel(el) };
   }
   return { analyteUnits: units, compound, analyte, elements, model, inputs };
 }

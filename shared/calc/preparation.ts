@@ -36,6 +36,12 @@ export interface PreparationRequest {
     analyteFormula?: string;
     purity: { value: string; standardUncertainty?: string; expandedUncertainty?: string; k?: string; halfWidth?: string };
     density: QuantityText;
+    /**
+     * Atomic weights stated on the material's certificate (e.g. the Pb of a lot of known isotopic composition),
+     * used instead of the standard atomic weight for that element: value g/mol, standard uncertainty g/mol
+     * (or expanded with k), and the certificate it comes from, named in the budget row.
+     */
+    atomicWeights?: Record<string, { value: string; standardUncertainty?: string; expandedUncertainty?: string; k?: string; source: string }>;
   };
   balance?: { weightDensity?: QuantityText; standardUncertainty?: QuantityText; readability?: QuantityText };
   air: {
@@ -365,8 +371,24 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
     rhoSol = convertDensity(v, u.name, 'g/mL');
   }
 
+  // ---- certificate atomic weights (instead of the standard atomic weight of those elements)
+  const stated: Record<string, { value: Dec; u: Dec; label: string }> = {};
+  for (const [el, a] of Object.entries(req.material.atomicWeights ?? {})) {
+    const field = `material.atomicWeights.${el}`;
+    if (!gm || !gm.elements.includes(el)) throw new CalcError('calc_out_of_range', `${el} is not an element of ${formula ?? 'the compound'}; a stated atomic weight applies to an element of the compound`, { field });
+    const value = positive(a.value, `${field}.value`, `atomic weight of ${el}`);
+    let u: Dec;
+    if (a.standardUncertainty !== undefined && a.standardUncertainty !== '') u = nonNegative(a.standardUncertainty, `${field}.standardUncertainty`, `standard uncertainty of the atomic weight of ${el}`);
+    else if (a.expandedUncertainty !== undefined && a.expandedUncertainty !== '') u = fromExpanded(nonNegative(a.expandedUncertainty, `${field}.expandedUncertainty`, `expanded uncertainty of the atomic weight of ${el}`), positive(a.k, `${field}.k`, 'coverage factor k'));
+    else throw new CalcError('missing_input', `Enter the uncertainty the certificate states for the atomic weight of ${el}`, { field: `${field}.standardUncertainty` });
+    const source = (a.source ?? '').trim();
+    if (!source) throw new CalcError('missing_input', `Name the certificate that states the atomic weight of ${el}`, { field: `${field}.source` });
+    stated[el] = { value, u, label: `Atomic weight of ${el}: ${value.toString()} g/mol as stated on ${source} (instead of the standard atomic weight)` };
+  }
+
   // ---- the model
   const w0 = defaultWeights();
+  for (const [el, a] of Object.entries(stated)) w0[el] = a.value;
   const compoundEls = gm ? gm.elements : [];
   const analyteAtoms = gm ? gm.analyte.atoms : {};
   const model = (massUnit: string) => {
@@ -410,7 +432,8 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
     if (rhoSol) inputs.solutionDensity = { value: rhoSol, standardUncertainty: rhoSolU, label: 'Solution density', unit: 'g/mL' };
     if (gm && useAtomicWeights) {
       for (const el of gm.elements) {
-        inputs[`atomicWeight.${el}`] = { ...gm.inputs[el], unit: 'g/mol' };
+        const a = stated[el];
+        inputs[`atomicWeight.${el}`] = a ? { value: a.value, standardUncertainty: a.u, label: a.label, unit: 'g/mol' } : { ...gm.inputs[el], unit: 'g/mol' };
       }
     }
     return inputs;
@@ -447,7 +470,7 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
     gravimetricFactor: out(wValue),
     gravimetricFactorStandardUncertainty: out(
       gm && analyteFormula
-        ? propagate({ model: (x) => gm!.model({ ...w0, ...x }), inputs: gm.inputs }).standardUncertainty
+        ? propagate({ model: (x) => gm!.model({ ...w0, ...x }), inputs: Object.fromEntries(gm.elements.map((el) => [el, stated[el] ? { value: stated[el].value, standardUncertainty: stated[el].u } : gm!.inputs[el]!])) }).standardUncertainty
         : new D(0),
     ),
     buoyancyFactor: out(B),

@@ -127,6 +127,19 @@ export const calcPreparationRequestSchema = z.object({
     analyteFormula: lineText().trim().max(200, 'Use at most 200 characters').optional(),
     purity: puritySchema,
     density: plausibleDensity('the material density', PLAUSIBLE.materialDensity),
+    /** certificate atomic weights by element symbol, used instead of the standard atomic weight (shared/calc/preparation.ts) */
+    atomicWeights: z
+      .record(
+        z.string().regex(/^[A-Z][a-z]?$/, 'Use an element symbol such as Pb'),
+        z.object({
+          value: positiveDecimal('the atomic weight'),
+          standardUncertainty: nonNegativeDecimal('its standard uncertainty').optional(),
+          expandedUncertainty: nonNegativeDecimal('its expanded uncertainty').optional(),
+          k: positiveDecimal('the coverage factor k').optional(),
+          source: lineText().trim().min(1, 'Name the certificate that states it').max(200, 'Use at most 200 characters'),
+        }),
+      )
+      .optional(),
   }),
   balance: z
     .object({

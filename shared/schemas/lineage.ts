@@ -1,3 +1,4 @@
+import type { MatrixWarning } from '../prep/matrix.ts';
 /**
  * Standards made from standards: dilutions of a verified parent, calibration series, and the lineage section
  * of a preparation's detail (REQUIREMENTS TR-04, TR-11, EX-01; METROLOGY §5.5).
@@ -9,12 +10,12 @@ import { lineText, multilineText } from './text.ts';
 import Decimal from 'decimal.js';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 import { CONCENTRATION_UNITS, isConcentrationUnit } from '../calc/units.ts';
-import type { DilutionResult, SeriesLevelProposal } from '../calc/dilution.ts';
+import type { DilutionResult, IntermediateProposal, SeriesLevelProposal } from '../calc/dilution.ts';
 import type { VolumetricWare } from './inventory.ts';
 import type { PreparationDetail } from './preparations.ts';
 import type { GravimetricDilutionSection } from './gravimetric.ts';
 
-export type { DilutionResult, SeriesLevelProposal };
+export type { DilutionResult, IntermediateProposal, SeriesLevelProposal };
 
 export const PREPARATION_KINDS = ['stock', 'dilution', 'series_level', 'mix'] as const;
 export type PreparationKind = (typeof PREPARATION_KINDS)[number];
@@ -142,6 +143,8 @@ export interface DilutionSection {
   /** recomputed from the stored aliquot and make-up; absent until both are recorded */
   result?: DilutionResult & { calcVersion: string; basedOn: { aliquotId: number; makeUpId: number } };
   series?: { id: number; identifier: string };
+  /** set when the dilution's solvent (made up, else planned) differs from the parent's (shared/prep/matrix.ts) */
+  matrixWarning?: MatrixWarning;
 }
 
 /** One analyte of a mix: its parent, its planned aliquot, the aliquots delivered and its own concentration and budget. */
@@ -272,6 +275,8 @@ export interface SeriesProposalResponse {
   parent: ParentSnapshot;
   minAliquotMl: string;
   levels: SeriesLevelProposal[];
+  /** when levels lie too far below the parent: a first dilution to plan (POST /api/preparations/:parent/dilutions) that those levels then come from */
+  intermediate?: IntermediateProposal;
 }
 
 export interface CreateSeriesResponse {

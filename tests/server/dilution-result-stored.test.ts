@@ -13,7 +13,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Preparation } from '../../server/db/models/index.ts';
 import { verifySignatures } from '../../server/services/signatures.service.ts';
 import { volumetricDilution } from '../../shared/calc/dilution.ts';
-import { triangular } from '../../shared/calc/index.ts';
+import { rectangular, triangular } from '../../shared/calc/index.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { expectClose } from '../helpers/decimal.ts';
@@ -86,20 +86,17 @@ describe('the dilution result is stored at write time', () => {
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     const result = m.body.dilution.result;
 
-    // the number itself, computed independently with the core: c2 = c1·Vp/Vf, tolerances triangular (METROLOGY §5.5, §4.4)
-    const core = volumetricDilution({
-      parent: { value: '1000.45', unit: 'mg/L', standardUncertainty: '0.5' },
-      aliquot: { volumeMl: '1', standardUncertainty: triangular('0.008') },
-      final: { volumeMl: '100', standardUncertainty: triangular('0.10') },
-      rounding: 'half-even',
-    });
+    // the number itself, computed independently with the core: c2 = c1·Vp/Vf, tolerances triangular (METROLOGY §5.5, §4.4),
+    // and, as every new record (dilution-2), each item's repeatability a/√6 from its tolerance [common practice] and the
+    // aliquot-to-final temperature difference ±4 °C rectangular [QUAM A1] with the water lot's β = 0.000207 /K (seed)
+    const core = volumetricDilution({ ...coreArgs(), rounding: 'half-even' });
     expect(result.value).toBe('10.0045');
     expect(result.value).toBe(core.value);
     expectClose(result.standardUncertainty, core.standardUncertainty, '1e-18'); // the server carries the tolerances' u at 20 digits
-    expect(result.display).toBe('10.004 ± 0.067 mg/L (k = 2)'); // half-even keeps the even 4 (the lab default rule)
-    expect(volumetricDilution({ ...coreArgs(), rounding: 'half-up' }).display).toBe('10.005 ± 0.067 mg/L (k = 2)'); // the other rule would differ
+    expect(result.display).toBe('10.004 ± 0.094 mg/L (k = 2)'); // half-even keeps the even 4 (the lab default rule)
+    expect(volumetricDilution({ ...coreArgs(), rounding: 'half-up' }).display).toBe('10.005 ± 0.094 mg/L (k = 2)'); // the other rule would differ
     expect(result.basedOn).toEqual({ aliquotId: a.body.dilution.aliquots[0].id, makeUpId: m.body.makeUp.id });
-    expect(result.calcVersion).toMatch(/^dilution-1/);
+    expect(result.calcVersion).toMatch(/^dilution-2/);
     expect(m.body.concentrationDisplay).toBe(result.display);
 
     // stored in the same write: the column holds exactly what the API shows
@@ -118,8 +115,8 @@ describe('the dilution result is stored at write time', () => {
     const after = await send('chemist2', 'get', `/api/preparations/${key}`);
     expect(after.status).toBe(200);
     expect(after.body.dilution.result).toEqual(result);
-    expect(after.body.dilution.result.display).toBe('10.004 ± 0.067 mg/L (k = 2)');
-    expect(after.body.concentrationDisplay).toBe('10.004 ± 0.067 mg/L (k = 2)');
+    expect(after.body.dilution.result.display).toBe('10.004 ± 0.094 mg/L (k = 2)');
+    expect(after.body.concentrationDisplay).toBe('10.004 ± 0.094 mg/L (k = 2)');
     expect(after.body.signatures.map((x: { meaning: string; valid: boolean }) => [x.meaning, x.valid])).toEqual([['prepared', true]]);
     expect((await verifySignatures(d.body.id)).every((c) => c.ok)).toBe(true);
     expect(after.body.canSign.verify, JSON.stringify(after.body.canSign)).toBe(true);
@@ -129,12 +126,14 @@ describe('the dilution result is stored at write time', () => {
     expect(verified.status, JSON.stringify(verified.body)).toBe(201);
     const child = await send('chemist', 'post', `/api/preparations/${key}/dilutions`, { method: 'volumetric', target: { value: '0.1', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] });
     expect(child.status, JSON.stringify(child.body)).toBe(201);
-    expect(child.body.dilution.parent.snapshot.concentration).toEqual({ value: result.value, unit: 'mg/L', standardUncertainty: result.standardUncertainty, display: '10.004 ± 0.067 mg/L (k = 2)' });
+    expect(child.body.dilution.parent.snapshot.concentration).toEqual({ value: result.value, unit: 'mg/L', standardUncertainty: result.standardUncertainty, display: '10.004 ± 0.094 mg/L (k = 2)' });
 
-    // a legacy row (no stored result) is computed on read with the current rule, so it would show 10.005 and break the signature
+    // a legacy row (no stored result) is computed on read with the current rule and the budget of its time (dilution-1:
+    // tolerances only), so it would show 10.005 ± 0.067 and break the signature made over the stored dilution-2 result
     await Preparation.sequelize!.query('UPDATE preparations SET dilution_result = NULL WHERE id = :id', { replacements: { id: d.body.id } });
     const legacy = await send('chemist', 'get', `/api/preparations/${key}`);
     expect(legacy.body.dilution.result.display).toBe('10.005 ± 0.067 mg/L (k = 2)');
+    expect(legacy.body.dilution.result.calcVersion).toMatch(/^dilution-1/);
     expect((await verifySignatures(d.body.id)).some((c) => !c.ok)).toBe(true);
     await send('admin', 'put', '/api/settings', { roundingRule: 'half-even' });
   });
@@ -145,5 +144,7 @@ function coreArgs() {
     parent: { value: '1000.45', unit: 'mg/L', standardUncertainty: '0.5' },
     aliquot: { volumeMl: '1', standardUncertainty: triangular('0.008') },
     final: { volumeMl: '100', standardUncertainty: triangular('0.10') },
+    repeatability: { aliquotMl: triangular('0.008'), finalMl: triangular('0.10') },
+    temperature: { betaPerK: '0.000207', standardUncertaintyC: rectangular('4') },
   };
 }

@@ -4,7 +4,7 @@
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry, Preparation } from '../../server/db/models/index.ts';
-import { D, triangular } from '../../shared/calc/index.ts';
+import { D, rectangular, triangular } from '../../shared/calc/index.ts';
 import { addDays } from '../../shared/prep/dates.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
@@ -88,10 +88,19 @@ describe('POST /api/preparations/:key/dilutions', () => {
     const c1 = new D(parent.result.concentration.value);
     const u1 = new D(parent.result.concentration.standardUncertainty);
     // c2 = c1·Vp/Vf = c1·1/100; u_r² = u_r(c1)² + (0.008/√6/1)² + (0.10/√6/100)² [METROLOGY §5.5, tolerances §4.4]
+    // + the fuller budget (dilution-2, shared/calc/dilution.ts): repeatability a/√6 of each tolerance [common practice]
+    // and β·u(ΔT) with water's β = 2.1e-4 /K and ΔT ±4 °C rectangular [QUAM A1]
     expectClose(d.dilution.planned.value, c1.div(100), '1e-15');
-    const ur = u1.div(c1).pow(2).plus(triangular('0.008').pow(2)).plus(triangular('0.10').div(100).pow(2)).sqrt();
+    const ur = u1
+      .div(c1)
+      .pow(2)
+      .plus(triangular('0.008').pow(2).mul(2))
+      .plus(triangular('0.10').div(100).pow(2).mul(2))
+      .plus(new D('0.00021').mul(rectangular('4')).pow(2))
+      .sqrt();
     expectClose(d.dilution.planned.relative, ur, '1e-12');
-    expect(d.dilution.planned.budget.map((b: { input: string }) => b.input)).toEqual(['parent', 'aliquot', 'final']);
+    expect(d.dilution.planned.budget.map((b: { input: string }) => b.input)).toEqual(['parent', 'aliquot', 'final', 'aliquotRepeatability', 'finalRepeatability', 'temperature']);
+    expect(d.dilution.planned.budget.find((b: { input: string }) => b.input === 'aliquotRepeatability').label).toMatch(/±0\.008 mL tolerance of BP-1-01, triangular a\/√6; common practice/);
     // the parent's forward trace lists the child (TR-04)
     const p = await send('qa', 'get', `/api/preparations/${parent.identifier}`);
     expect(p.body.children.map((c: { identifier: string }) => c.identifier)).toContain(d.identifier);

@@ -60,6 +60,7 @@ const ROWS: Row[] = [
   { method: 'post', path: '/api/audit/verify', allowed: ['qa', 'admin'], ok: 200 },
   { method: 'get', path: '/api/audit/records/:entity/:entityId', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/outbox', allowed: ['admin'], ok: 200 },
+  { method: 'get', path: '/api/worklists', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/trace/:identifier', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
   { method: 'get', path: '/api/trace/:identifier/report.pdf', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
   { method: 'get', path: '/api/trace/:identifier/report.csv', allowed: ['qa', 'admin', 'chemist'], ok: 200 },

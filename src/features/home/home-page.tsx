@@ -1,6 +1,7 @@
 import { Link } from 'react-router';
 import { useAuth, ROLE_ABILITIES } from '../auth/use-auth.ts';
 import { roleLabel } from '../../lib/format.ts';
+import { WorkLists } from './work-lists.tsx';
 
 function Tile({ to, title, text, testId }: { to: string; title: string; text: string; testId: string }) {
   return (
@@ -32,6 +33,8 @@ export function HomePage() {
           Role: {roleLabel(user.role)}
         </p>
       </header>
+
+      <WorkLists />
 
       <section aria-labelledby="abilities-title" className="rounded-xl border-2 border-line bg-card p-5">
         <h2 id="abilities-title" className="text-xl font-bold">

@@ -190,6 +190,19 @@ export function SeriesPage() {
                   Propose glassware
                 </Button>
               </div>
+              {rows && propose.data?.intermediate ? (
+                <div role="note" data-testid="series-intermediate" className="rounded-xl border-4 border-brass-400 bg-brass-100 px-5 py-4">
+                  <p className="text-lg font-bold">Intermediate dilution needed</p>
+                  <p className="mt-1">{propose.data.intermediate.message}.</p>
+                  <Link
+                    to={`/preparations/${encodeURIComponent(p.identifier)}/dilute`}
+                    data-testid="series-intermediate-plan"
+                    className="mt-3 inline-flex min-h-12 items-center rounded-lg border-2 border-slate-700 bg-card px-4 font-semibold"
+                  >
+                    Plan the intermediate dilution ({propose.data.intermediate.target.value} {propose.data.intermediate.target.unit}) →
+                  </Link>
+                </div>
+              ) : null}
             </div>
           </Panel>
 

@@ -1,7 +1,7 @@
 import { describe, it, expect } from 'vitest';
 import fc from 'fast-check';
-import { D, CalcError, triangular } from '../../../shared/calc/index.ts';
-import { gravimetricDilution, pistonSetting, pistonStepMl, proposeSeries, volumetricDilution, type SeriesWare } from '../../../shared/calc/dilution.ts';
+import { D, CalcError, rectangular, triangular } from '../../../shared/calc/index.ts';
+import { DILUTION_TEMPERATURE_HALF_WIDTH_C, gravimetricDilution, pistonSetting, proposeIntermediate, repeatabilityFromTolerance, pistonStepMl, proposeSeries, volumetricDilution, type SeriesWare } from '../../../shared/calc/dilution.ts';
 import { expectClose } from '../../helpers/decimal.ts';
 
 // METROLOGY §5.5 worked example [C]: 1.000 mL ISO 648 class A (±0.008, triangular) into 100 mL (±0.10,
@@ -185,5 +185,97 @@ describe('calibration series proposal', () => {
     expect(p[0]!.message).toMatch(/not below/);
     expect(p[1]!.message).toMatch(/in mg\/L/);
     expect(p[2]!.message).toMatch(/No in-service pipette/);
+  });
+});
+
+// The fuller budget (dilution-2): the same worked example plus each item's repeatability from its tolerance,
+// triangular a/√6 [common practice, reasons in shared/calc/dilution.ts], and the aliquot-to-final temperature
+// difference 0 ± 4 °C rectangular [QUAM A1 laboratory allowance] with water's β = 2.1e-4 /K [QUAM A1, METROLOGY §5.3].
+describe('volumetric dilution, fuller budget', () => {
+  const fuller = () =>
+    volumetricDilution({
+      parent: pbStock,
+      aliquot: { volumeMl: '1.000', standardUncertainty: triangular('0.008') },
+      final: { volumeMl: '100', standardUncertainty: triangular('0.10') },
+      repeatability: { aliquotMl: repeatabilityFromTolerance('0.008'), finalMl: repeatabilityFromTolerance('0.10') },
+      temperature: { betaPerK: '0.00021', standardUncertaintyC: rectangular(DILUTION_TEMPERATURE_HALF_WIDTH_C) },
+    });
+
+  it('adds three rows; u_r² = 3.54e-3² + 3.27e-3² + 4.1e-4² + (2.1e-4·4/√3)² → u_r = 4.86e-3 [C, arithmetic on METROLOGY §5.5 and QUAM A1]', () => {
+    const r = fuller();
+    expect(r.value).toBe(workedExample().value); // the terms are 0 ± u: the value does not move
+    expect(r.budget.map((b) => b.input)).toEqual(['parent', 'aliquot', 'final', 'aliquotRepeatability', 'finalRepeatability', 'temperature']);
+    const row = (n: string) => r.budget.find((b) => b.input === n)!;
+    expectClose(new D(row('aliquotRepeatability').contribution).div(r.value), '3.27e-3', '0.005e-3'); // 0.008/√6 / 1 mL
+    expectClose(new D(row('finalRepeatability').contribution).div(r.value), '4.1e-4', '0.05e-4'); // 0.10/√6 / 100 mL
+    expectClose(new D(row('temperature').contribution).div(r.value), '4.85e-4', '0.005e-4'); // 2.1e-4 × 4/√3
+    const expected = new D(workedExample().relative).pow(2).plus(triangular('0.008').pow(2)).plus(triangular('0.10').div(100).pow(2)).plus(new D('0.00021').mul(rectangular('4')).pow(2)).sqrt();
+    expectClose(r.relative, expected, '1e-15');
+    expectClose(r.relative, '4.86e-3', '0.005e-3');
+    expect(r.display).toBe('10.010 ± 0.097 mg/L (k = 2)');
+  });
+
+  it('repeatability from a tolerance is triangular a/√6: 100 mL ±0.10 → 0.0408 mL, twice QUAM A1\u2019s measured fill-and-weigh s = 0.02 mL [METROLOGY §5.3]', () => {
+    expectClose(repeatabilityFromTolerance('0.10'), '0.040825', '0.000001');
+  });
+
+  it('without the options the budget is dilution-1 exactly (records written before keep theirs)', () => {
+    const r = workedExample();
+    expect(r.budget.map((b) => b.input)).toEqual(['parent', 'aliquot', 'final']);
+  });
+
+  it('the series proposal\u2019s expected u_r includes the same terms when asked [same sources]', () => {
+    const ware: SeriesWare[] = [
+      { id: 1, identifier: 'BP-1-01', kind: 'bulb_pipette', nominalVolumeMl: '1', class: 'A', toleranceMl: '0.008', status: 'in_service' },
+      { id: 2, identifier: 'VF-100-01', kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', status: 'in_service' },
+    ];
+    const args = { parentConcentration: pbStock, levels: [{ value: '10.0099', unit: 'mg/L' }], pipettes: [ware[0]!], flasks: [ware[1]!] };
+    const plain = proposeSeries(args)[0]!.choice!;
+    const full = proposeSeries({ ...args, fullerBudget: { betaPerK: '0.00021' } })[0]!.choice!;
+    expectClose(plain.expectedRelativeU!, workedExample().relative, '1e-12');
+    expectClose(full.expectedRelativeU!, fuller().relative, '1e-12');
+  });
+});
+
+// An intermediate step for levels too far below the parent (issue 16 §5): µg/L levels from a 1000 mg/L stock need
+// a dilution factor of 10⁵, beyond any one pipette and flask (1 mL into 1000 mL is 10⁻³) [common practice: serial
+// dilution]. Expected concentrations are c1·Va/Vf exactly [C, arithmetic].
+describe('intermediate dilution step', () => {
+  const glass: SeriesWare[] = [
+    { id: 1, identifier: 'BP-1-01', kind: 'bulb_pipette', nominalVolumeMl: '1', class: 'A', toleranceMl: '0.008', status: 'in_service' },
+    { id: 2, identifier: 'BP-2-01', kind: 'bulb_pipette', nominalVolumeMl: '2', class: 'A', toleranceMl: '0.010', status: 'in_service' },
+    { id: 3, identifier: 'BP-10-01', kind: 'bulb_pipette', nominalVolumeMl: '10', class: 'A', toleranceMl: '0.020', status: 'in_service' },
+  ];
+  const flasks: SeriesWare[] = [
+    { id: 4, identifier: 'VF-100-01', kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', status: 'in_service' },
+    { id: 5, identifier: 'VF-1000-01', kind: 'volumetric_flask', nominalVolumeMl: '1000', class: 'A', toleranceMl: '0.40', status: 'in_service' },
+  ];
+  const input = {
+    parentConcentration: { value: '1000', unit: 'mg/L', standardUncertainty: '1.3' },
+    levels: [{ value: '100', unit: 'mg/L' }, { value: '0.01', unit: 'mg/L' }, { value: '0.02', unit: 'mg/L' }],
+    pipettes: glass,
+    flasks,
+  };
+
+  it('proposes a first dilution that the 10 and 20 µg/L levels then come from; the reachable level needs none', () => {
+    const direct = proposeSeries(input);
+    expect(direct[0]!.choice).not.toBeNull(); // 10 mL into 100 mL
+    expect(direct[1]!.choice).toBeNull();
+    expect(direct[2]!.choice).toBeNull();
+    const step = proposeIntermediate(input, direct)!;
+    expect(step).not.toBeNull();
+    expect(step.levels.map((l) => l.index)).toEqual([1, 2]);
+    // the intermediate is exactly what its pair gives from the parent, and each level exactly what its pair gives from it
+    expect(new D(step.target.value).eq(new D('1000').mul(step.choice.aliquotMl).div(step.choice.finalMl))).toBe(true);
+    expect(step.choice.exact).toBe(true);
+    for (const l of step.levels) {
+      const c = l.proposal.choice!;
+      expect(new D(step.target.value).mul(c.aliquotMl).div(c.finalMl).eq(l.proposal.target.value)).toBe(true);
+    }
+    expect(step.message).toMatch(/first dilute .* mL of the parent with BP-\d+-01 into \d+ mL \(VF-\d+-01\) to [\d.]+ mg\/L, then make those 2 levels from it once it is verified/);
+  });
+
+  it('is null when every level is reachable directly', () => {
+    expect(proposeIntermediate({ ...input, levels: [{ value: '10', unit: 'mg/L' }] })).toBeNull();
   });
 });

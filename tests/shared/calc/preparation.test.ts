@@ -252,3 +252,42 @@ describe('calculatePreparation: validation errors carry the request field path',
     expect(calcErr(req).message).toBe('Temperature 31 °C is outside the CIPM-2007 range 15–27 °C');
   });
 });
+
+// Where the atomic-weight contribution comes from (issue 16 §5): the row names the standard atomic weight and its
+// interval treatment (METROLOGY §8: CIAAW abridged Pb 207.2 ± 1.1, ± as rectangular half-width, QUAM style), and a
+// certificate's stated atomic weight replaces it for that element. Expected w = Ar(Pb)/(Ar(Pb) + 2·14.007 + 6·15.999)
+// [C, arithmetic with the CIAAW abridged N and O of METROLOGY §8].
+describe('atomic weights: source named, certificate value instead', () => {
+  const w = (pb: string) => new D(pb).div(new D(pb).plus('124.008'));
+  const pbRow = (r: ReturnType<typeof calculatePreparation>) => r.actual!.budget.find((b) => b.input === 'atomicWeight.Pb')!;
+
+  it('by default the row says "standard atomic weight 207.2 ± 1.1 (IUPAC/CIAAW abridged; interval as rectangular half-width)"', () => {
+    const r = calculatePreparation(pbRequest());
+    expect(pbRow(r).label).toBe('Atomic weight of Pb: standard atomic weight 207.2 ± 1.1 (IUPAC/CIAAW abridged; interval as rectangular half-width, u = a/√3)');
+    expectClose(pbRow(r).standardUncertainty, rectangular('1.1'), '1e-15');
+    expectClose(r.gravimetricFactor, w('207.2'), '1e-15');
+  });
+
+  it('a certificate value 207.21 ± 0.01 g/mol (standard uncertainty) is used instead and named; the Pb contribution shrinks by 1.1/√3 ÷ 0.01 [C]', () => {
+    const base = calculatePreparation(pbRequest());
+    const req = pbRequest();
+    req.material.atomicWeights = { Pb: { value: '207.21', standardUncertainty: '0.01', source: 'certificate HWL-PB-ISO-7' } };
+    const r = calculatePreparation(req);
+    expect(pbRow(r).label).toBe('Atomic weight of Pb: 207.21 g/mol as stated on certificate HWL-PB-ISO-7 (instead of the standard atomic weight)');
+    expectClose(r.gravimetricFactor, w('207.21'), '1e-15');
+    // the concentration moves by the ratio of the gravimetric factors (model c ∝ w)
+    expectClose(new D(r.actual!.concentration.value).div(base.actual!.concentration.value), w('207.21').div(w('207.2')), '1e-15');
+    expectClose(new D(pbRow(base).contribution).div(pbRow(r).contribution), rectangular('1.1').div('0.01'), '0.01');
+    expect(new D(r.actual!.concentration.standardUncertainty).lt(base.actual!.concentration.standardUncertainty)).toBe(true);
+  });
+
+  it('refuses a stated atomic weight of an element not in the compound, or without its uncertainty or source, at the field', () => {
+    const req = pbRequest();
+    req.material.atomicWeights = { Cu: { value: '63.546', standardUncertainty: '0.002', source: 'cert' } };
+    expect(() => calculatePreparation(req)).toThrow(expect.objectContaining({ field: 'material.atomicWeights.Cu' }));
+    req.material.atomicWeights = { Pb: { value: '207.21', source: 'cert' } };
+    expect(() => calculatePreparation(req)).toThrow(expect.objectContaining({ field: 'material.atomicWeights.Pb.standardUncertainty' }));
+    req.material.atomicWeights = { Pb: { value: '207.21', standardUncertainty: '0.01', source: ' ' } };
+    expect(() => calculatePreparation(req)).toThrow(expect.objectContaining({ field: 'material.atomicWeights.Pb.source' }));
+  });
+});

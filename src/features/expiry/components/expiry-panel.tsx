@@ -1,4 +1,6 @@
 import { useState } from 'react';
+import { Link } from 'react-router';
+import { relabelHref } from '../relabel.ts';
 import { useForm } from 'react-hook-form';
 import { zodResolver } from '@hookform/resolvers/zod';
 import { Button } from '../../../components/ui/button.tsx';
@@ -105,6 +107,7 @@ function ExtendForm({ d }: { d: ExpiryDetail }) {
   const [needsAck, setNeedsAck] = useState(d.canSign?.acknowledgementRequired === true);
   const [banner, setBanner] = useState<string | null>(null);
   const [done, setDone] = useState<string | null>(null);
+  const [relabel, setRelabel] = useState<{ from: string; to: string } | null>(null);
   const form = useForm<ExtendFormValues>({
     resolver: zodResolver(extendFormSchema(d.expiry.expiresOn, d.expiryCap)),
     defaultValues: { newExpiresOn: '', reason: '', password: '', acknowledge: false },
@@ -114,6 +117,7 @@ function ExtendForm({ d }: { d: ExpiryDetail }) {
   const submit = form.handleSubmit(async (values) => {
     setBanner(null);
     setDone(null);
+    setRelabel(null);
     const ack = acknowledgeProblem(needsAck, values.acknowledge);
     if (ack) {
       form.setError('acknowledge', { type: 'client', message: ack });
@@ -124,6 +128,7 @@ function ExtendForm({ d }: { d: ExpiryDetail }) {
       form.reset({ newExpiresOn: '', reason: '', password: '', acknowledge: false });
       setNeedsAck(false);
       setDone(`Expiry extended to ${next.expiry.expiresOn}.`);
+      setRelabel({ from: d.expiry.expiresOn, to: next.expiry.expiresOn });
     } catch (e) {
       form.setValue('password', '');
       if (!(e instanceof ApiError)) {
@@ -167,6 +172,15 @@ function ExtendForm({ d }: { d: ExpiryDetail }) {
         <Banner tone="ok" testId="expiry-extended">
           {done}
         </Banner>
+      ) : null}
+      {done && relabel ? (
+        <div role="note" data-testid="expiry-relabel" className="rounded-lg border-4 border-brass-400 bg-brass-100 px-4 py-3">
+          <p className="font-bold">Labels already printed still show {relabel.from}.</p>
+          <p className="mt-1">Relabel the bottles: print the labels again (a reprint, with the reason filled in) and destroy the old labels.</p>
+          <Link to={relabelHref(d.identifier, relabel.from, relabel.to)} data-testid="expiry-relabel-print" className="mt-2 inline-flex min-h-12 items-center rounded-lg border-2 border-slate-700 bg-card px-4 font-semibold">
+            Reprint labels →
+          </Link>
+        </div>
       ) : null}
       {banner ? (
         <Banner title="Not extended" testId="expiry-refused">

@@ -5,6 +5,7 @@
  * scanned; volume for a piston pipette; a correction supersedes with a reason), 2. make up to volume (the
  * planned flask), 3. the recomputed concentration ± U and the next step (sign "prepared" on the record).
  */
+import { MatrixWarningNote } from './matrix-warning.tsx';
 import { useState } from 'react';
 import { Link } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
@@ -79,6 +80,7 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
 
   return (
     <div className="flex flex-col gap-6" data-testid="dilution-bench">
+      <MatrixWarningNote warning={dil.matrixWarning} />
       <section aria-label="What to pipette" className="grid gap-5 rounded-xl border-4 border-brass-400 bg-brass-100 px-5 py-5 lg:grid-cols-[minmax(0,3fr)_minmax(0,2fr)]">
         <div className="min-w-0">
           <p className="text-lg font-bold">Pipette</p>

@@ -3,6 +3,7 @@
  * it was diluted from, the records made from it, and (for roles that may trace) the genealogy graph with its
  * list fallback. Also the chemist's "Make a dilution / series" action.
  */
+import { MatrixWarningNote } from './matrix-warning.tsx';
 import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router';
 import { useAuth } from '../../auth/use-auth.ts';
@@ -96,6 +97,7 @@ export function LineagePanel({ d }: { d: PreparationDetail }) {
 
   return (
     <div className="flex flex-col gap-4" data-testid="lineage-section">
+      <MatrixWarningNote warning={l.dilution?.matrixWarning} />
       <dl className="grid gap-x-6 gap-y-2 sm:grid-cols-[auto_minmax(0,1fr)]">
         <dt className="font-semibold text-ink-soft">Kind</dt>
         <dd data-testid="lineage-kind">{KIND_LABEL[l.kind ?? 'stock'] ?? statusLabel(l.kind ?? 'stock')}</dd>

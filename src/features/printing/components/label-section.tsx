@@ -1,4 +1,5 @@
 import { useEffect, useState } from 'react';
+import { relabelReasonFromQuery } from '../../expiry/relabel.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { Banner } from '../../../components/ui/feedback.tsx';
 import { useDebouncedValue } from '../../../hooks/use-debounced-value.ts';
@@ -72,7 +73,7 @@ export function LabelSection({
   }, [templateId, active]);
   const [copies, setCopies] = useState(1);
   const [copiesText, setCopiesText] = useState('1');
-  const [reason, setReason] = useState('');
+  const [reason, setReason] = useState(() => relabelReasonFromQuery(typeof window === 'undefined' ? '' : window.location.search)); // pre-filled after an expiry extension
   const [destroyed, setDestroyed] = useState(false);
   const [errors, setErrors] = useState<{ reason?: string; destroyed?: string; copies?: string }>({});
   const [banner, setBanner] = useState<string | null>(null);
