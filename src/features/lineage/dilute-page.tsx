@@ -17,6 +17,7 @@ import { lineageQueries, useCreateDilution } from './api/lineage-api.ts';
 import { aliquotFor, expectedDilution } from './expected-dilution.ts';
 import { labToday, parentConcentration, parentRefusal } from './parent-check.ts';
 import { D } from '../../../shared/calc/decimal.ts';
+import { shownEstimate } from '../../../shared/calc/rounding.ts';
 import type { VolumetricWare } from '../../../shared/schemas/inventory.ts';
 import type { DilutionMethod } from '../../../shared/schemas/lineage.ts';
 import { GravimetricForm } from './components/gravimetric-form.tsx';
@@ -97,7 +98,7 @@ export function DilutePage() {
       t = null;
     }
     if (!t || !t.isFinite() || t.lte(0)) errs['target.value'] = 'Enter the target concentration as a positive number';
-    else if (conc && t.gte(new D(conc.value))) errs['target.value'] = `The target must be below the parent's ${conc.value} ${conc.unit}`;
+    else if (conc && t.gte(new D(conc.value))) errs['target.value'] = `The target must be below the parent's ${shownEstimate(conc.value, conc.standardUncertainty)} ${conc.unit}`;
     if (!pipette) errs.pipetteId = 'Choose a pipette';
     if (!flask) errs.flaskId = 'Choose a volumetric flask';
     else if (pipette && new D(pipette.nominalVolumeMl).gte(new D(flask.nominalVolumeMl))) errs.flaskId = 'The flask must be larger than the pipette';
