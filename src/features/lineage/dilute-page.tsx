@@ -210,7 +210,7 @@ export function DilutePage() {
                 <p className="text-ink-soft">
                   Dilution 1 : <span className="num">{new D(expected.dilutionFactor).toSignificantDigits(6).toString()}</span> ({qty({ value: delivered!.nominalVolumeMl, unit: 'mL' })} into{' '}
                   {qty({ value: flask!.nominalVolumeMl, unit: 'mL' })}); relative standard uncertainty{' '}
-                  <span className="num" data-testid="dilute-expected-relative">{percent(expected.relative, 2)}</span> from the parent and the two tolerances (METROLOGY §5.5).
+                  <span className="num" data-testid="dilute-expected-relative">{percent(expected.relative, 2)}</span> from the parent and the two tolerances.
                 </p>
                 {off && off.gt('0.05') ? (
                   <p className="font-semibold text-caution-700" data-testid="dilute-target-mismatch">

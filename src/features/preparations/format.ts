@@ -72,3 +72,11 @@ export function percent(s: string | null | undefined, decimals = 1): string {
     return '—';
   }
 }
+
+/**
+ * The name of a calculation version for the screen: "dilution-1 (METROLOGY §5.5: …)" → "calculation dilution-1".
+ * The stored string keeps its internal references (it is part of the record); the screen shows none.
+ */
+export function calcVersionName(calcVersion: string): string {
+  return `calculation ${calcVersion.replace(/\s*\(.*$/s, '').trim()}`;
+}

@@ -13,7 +13,7 @@ import { api, type ApiError } from '../../../lib/api-client.ts';
 import { gravimetricReadingsInputSchema, type GravimetricDilutionSection, type GravimetricReadingDto, type GravimetricReadingsInput } from '../../../../shared/schemas/gravimetric.ts';
 import type { LineageSection } from '../../../../shared/schemas/lineage.ts';
 import { preparationKeys } from '../../preparations/api/preparation-keys.ts';
-import { formatLabTime, percent } from '../../preparations/format.ts';
+import { calcVersionName, formatLabTime, percent } from '../../preparations/format.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
 import { GatePanels } from '../../preparations/components/gate-panels.tsx';
 import { useAuth } from '../../auth/use-auth.ts';
@@ -62,7 +62,7 @@ export function GravimetricResultView({ g, testId = 'grav-result' }: { g: Gravim
       <p className="text-ink-soft">
         Relative standard uncertainty <span className="num">{percent(shown.massFraction.relative, 2)}</span> (mass fraction) and{' '}
         <span className="num">{percent(shown.massConcentration.relative, 2)}</span> (mass concentration, with the final solution density).
-        {r ? ` Computed from readings #${r.basedOn.readingsId} (${r.calcVersion}).` : ''}
+        {r ? ` Computed from readings #${r.basedOn.readingsId} (${calcVersionName(r.calcVersion)}).` : ''}
       </p>
     </div>
   );
