@@ -21,3 +21,14 @@ describe('status mark', () => {
     expect(badge).not.toMatch(/[○◐●]/);
   });
 });
+
+describe('the two badges of a record', () => {
+  it('the bench badge is captioned and both are explained in one sentence', async () => {
+    const { StageBadge, BADGES_EXPLAINED } = await import('../../src/features/preparations/components/stage-badge.tsx');
+    const html = renderToString(createElement(StageBadge, { stage: 'planned', testId: 'detail-stage' })).replace(/<!-- -->/g, '');
+    expect(html).toContain('>Bench<');
+    expect(html).toMatch(/data-testid="detail-stage"[^>]*>Planned</);
+    expect(BADGES_EXPLAINED).toMatch(/Bench: how far the work is/);
+    expect(BADGES_EXPLAINED).toMatch(/who has signed/);
+  });
+});
