@@ -202,7 +202,7 @@ export function SeriesSheetDocument({ data }: { data: SeriesSheetData }) {
           ))}
         </View>
         <T style={[s.small, { marginTop: 3 }]}>
-          {'Planned: expected with the planned pipette and flask (parent as an input, METROLOGY §5.5). Recomputed: from the aliquot and make-up recorded in Tarebook; where blank, write the value from the bench and enter it in Tarebook. Expiry: the stability rule, capped by the parent and the reference material. P = prepared, V = verified (e-signatures in Tarebook).'}
+          {'Planned: expected with the planned pipette and flask (the parent counted as an input). Recomputed: from the aliquot and make-up recorded in Tarebook; where blank, write the value from the bench and enter it in Tarebook. Expiry: the stability rule, capped by the parent and the reference material. P = prepared, V = verified (e-signatures in Tarebook).'}
         </T>
 
         <View wrap={false}>

@@ -52,7 +52,7 @@ export function auditRouter(): Router {
     if (RESTRICTED_ENTITIES.has(entity) && !['qa', 'admin'].includes(req.user!.role)) {
       throw new AppError('forbidden', 403, 'This needs the QA or admin role');
     }
-    res.json({ items: await audit.recordTrail(entity, entityId) });
+    res.json({ items: entity === 'preparation' ? await audit.preparationTrail(entityId) : await audit.recordTrail(entity, entityId) });
   });
 
   return router;

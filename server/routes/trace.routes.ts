@@ -48,6 +48,16 @@ export function traceRouter(config: Config): Router {
     sendFile(res, 'text/csv; charset=utf-8', csv, filename);
   });
 
+  router.get('/trace/:identifier/forward-report.pdf', tracers, async (req, res) => {
+    const { pdf, filename } = await traceService.forwardReportPdf(keyOf(req.params.identifier), traceQuerySchema.parse(req.query), actor(req.user!));
+    sendFile(res, 'application/pdf', pdf, filename);
+  });
+
+  router.get('/trace/:identifier/forward-report.csv', tracers, async (req, res) => {
+    const { csv, filename } = await traceService.forwardReportCsv(keyOf(req.params.identifier), traceQuerySchema.parse(req.query), actor(req.user!));
+    sendFile(res, 'text/csv; charset=utf-8', csv, filename);
+  });
+
   router.get('/preparations/:key/review-flags', requireAuth, async (req, res) => {
     res.json(await traceService.reviewFlagsOf(keyOf(req.params.key)));
   });

@@ -489,6 +489,35 @@ export async function recordTrail(entity: string, entityId: string): Promise<Aud
   return rows.map(toDto);
 }
 
+/**
+ * The observations of a preparation are audited under their own entity (a weighing, a make-up, an
+ * aliquot, gravimetric readings); each table is keyed by preparation_id.
+ */
+const PREPARATION_PARTS: ReadonlyArray<readonly [entity: string, table: string]> = [
+  ['weighing', 'weighings'],
+  ['make_up', 'make_ups'],
+  ['aliquot', 'dilution_aliquots'],
+  ['gravimetric_readings', 'gravimetric_readings'],
+];
+
+/**
+ * The whole trail of one preparation, oldest first: the entries of the record itself and of every
+ * weighing, make-up, aliquot and gravimetric reading recorded for it (what the verifier reviews).
+ * `key` is the preparation's id; an unknown id gives the entries stored under it, if any.
+ */
+export async function preparationTrail(key: string): Promise<AuditEntryDto[]> {
+  const or: WhereOptions[] = [{ entity: 'preparation', entityId: key }];
+  if (/^\d+$/.test(key)) {
+    const sequelize = AuditEntry.sequelize!;
+    for (const [entity, table] of PREPARATION_PARTS) {
+      const ids = await sequelize.query<{ id: number }>(`SELECT id FROM ${table} WHERE preparation_id = :id`, { replacements: { id: Number(key) }, type: QueryTypes.SELECT });
+      if (ids.length) or.push({ entity, entityId: { [Op.in]: ids.map((r) => String(r.id)) } });
+    }
+  }
+  const rows = await AuditEntry.findAll({ where: { [Op.or]: or }, order: [['id', 'ASC']] });
+  return rows.map(toDto);
+}
+
 // ---------------------------------------------------------------------------------------------- CSV
 
 export const AUDIT_CSV_COLUMNS = [

@@ -359,6 +359,23 @@ async function seriesWare(): Promise<{ pipettes: SeriesWare[]; flasks: SeriesWar
   return { pipettes: rows.filter((w) => w.kind !== 'volumetric_flask').map(toSeries), flasks: rows.filter((w) => w.kind === 'volumetric_flask').map(toSeries) };
 }
 
+/**
+ * Flasks that hold the solution of a preparation still open (not discarded): the flask of its latest
+ * make-up. Flask id → the preparation's identifier. One flask, one open preparation: a proposal never offers
+ * a flask that still holds a solution (the stock being diluted included). A planned flask is only a plan:
+ * the flask used is the one scanned at make-up.
+ */
+export async function flasksHoldingSolutions(): Promise<Map<number, string>> {
+  const rows = await Preparation.sequelize!.query<{ flaskId: number; identifier: string }>(
+    `SELECT (SELECT m.flask_id FROM make_ups m WHERE m.preparation_id = p.id ORDER BY m.id DESC LIMIT 1) AS flaskId, p.identifier AS identifier
+       FROM preparations p WHERE p.status <> 'discarded' ORDER BY p.id`,
+    { type: QueryTypes.SELECT },
+  );
+  const held = new Map<number, string>();
+  for (const r of rows) if (r.flaskId !== null && !held.has(r.flaskId)) held.set(r.flaskId, r.identifier);
+  return held;
+}
+
 /** POST /api/series/proposal */
 export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor, opts: WriteOptions = {}): Promise<SeriesProposalResponse> {
   const now = opts.now ?? new Date();
@@ -366,13 +383,13 @@ export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor,
   const today = labDate(now, settings.timeZone);
   const parentRow = await findPreparationRow(input.parentKey, 'parentKey');
   const parent = await usableParent(parentRow, actor, settings, today, 'parentKey');
-  const ware = await seriesWare();
+  const [ware, held] = await Promise.all([seriesWare(), flasksHoldingSolutions()]);
   const minAliquotMl = input.minAliquotMl ?? '1';
   const request = {
     parentConcentration: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
     levels: input.levels,
     pipettes: ware.pipettes.filter((p) => p.toleranceMl),
-    flasks: ware.flasks.filter((f) => f.toleranceMl),
+    flasks: ware.flasks.filter((f) => f.toleranceMl && !held.has(f.id)),
     minAliquotMl,
     fullerBudget: { betaPerK: dilutionBeta(null).betaPerK }, // expected u_r as the levels will be computed (dilution-2)
   };
@@ -423,6 +440,12 @@ export async function createSeries(input: CreateSeriesInput, actor: Actor, opts:
   const parent = await usableParent(parentRow, actor, settings, today, 'parentKey');
   const planned: PlannedLevel[] = [];
   for (const [i, level] of input.levels.entries()) planned.push(await planLevel(parent, level, settings, `levels.${i}.`));
+  const flaskFields: Record<string, string> = {};
+  planned.forEach((l, i) => {
+    const first = planned.findIndex((o) => o.flask.id === l.flask.id);
+    if (first < i) flaskFields[`levels.${i}.flaskId`] = `${l.flask.identifier} is already the flask of level ${first + 1}; each level needs its own flask`;
+  });
+  if (Object.keys(flaskFields).length) throw AppError.validation('Two levels of the series cannot be made up in the same flask', flaskFields);
   const at = now.toISOString();
   const { seriesId, ids } = await writeTransaction(async (transaction) => {
     const year = Number(today.slice(0, 4));

@@ -764,7 +764,8 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
     throw new AppError('solvent_not_usable', 422, `${solvent.name} lot ${solvent.lot} ${why} and cannot be used`, { fields: { solventId: `${solvent.name} lot ${solvent.lot} ${why}; choose an accepted, in-date solvent` } });
   }
   if (input.solventLot !== solvent.lot) {
-    throw AppError.validation(`Lot ${input.solventLot} is not the lot of ${solvent.name}`, { solventLot: `The registered lot of ${solvent.name} is ${solvent.lot}; check the bottle` });
+    // the message never says which lot is registered: the lot is read from the bottle, not copied from the screen
+    throw AppError.validation(`Lot ${input.solventLot} is not a registered lot of ${solvent.name}`, { solventLot: `Lot ${input.solventLot} is not registered for ${solvent.name}; read the lot on the bottle again, or choose the solvent you used` });
   }
   if (input.applyTemperatureCorrection && !solvent.expansionCoefficientPerK) {
     throw AppError.validation(`${solvent.name} has no expansion coefficient recorded`, { applyTemperatureCorrection: `${solvent.name} has no expansion coefficient recorded, so the concentration cannot be corrected to 20 °C` });

@@ -29,6 +29,8 @@ import { getPreparation } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 import type { LineageSection } from '../../shared/schemas/lineage.ts';
 import { mixLabelText } from './mix-view.ts';
+import { DEFAULT_SOLUTION_STORAGE, type LabSettings } from '../../shared/schemas/settings.ts';
+import { selectStabilityRule } from '../../shared/prep/stability-rules.ts';
 
 export interface Actor {
   id: number;
@@ -125,6 +127,15 @@ async function preparerInitials(d: PreparationDetail): Promise<string> {
   return d.createdBy.initials;
 }
 
+/**
+ * How the solution is stored: the stability rule that applies to the record, if it says, else the lab's rule
+ * for prepared solutions. Never the reference material's storage: that is for the solid (drying, desiccator).
+ */
+export function solutionStorageOf(d: Pick<PreparationDetail, 'analyteFormula' | 'target'> & Partial<Pick<LineageSection, 'kind'>>, settings: LabSettings): string {
+  const rule = selectStabilityRule(settings.stabilityRules, { kind: d.kind ?? 'stock', analyteFormula: d.analyteFormula, concentration: d.target }, { days: 0, basis: '' });
+  return rule.storage ?? settings.solutionStorage ?? DEFAULT_SOLUTION_STORAGE;
+}
+
 /** The label content of the record as it is now (LB-01, LB-02, LB-03, LB-04, LB-09). */
 export async function labelSnapshotOf(d: PreparationDetail, timeZone: string): Promise<LabelSnapshot> {
   const preparedAt = d.makeUp?.recordedAt ?? d.createdAt;
@@ -140,7 +151,7 @@ export async function labelSnapshotOf(d: PreparationDetail, timeZone: string): P
     preparedOn: labDay(preparedAt, timeZone),
     expiresOn: d.expiry.expiresOn,
     preparerInitials: await preparerInitials(d),
-    storage: d.snapshot.material.storage,
+    storage: solutionStorageOf(d as PreparationDetail & Partial<LineageSection>, await getSettings()),
     pictograms: d.hazards.pictograms,
   };
 }

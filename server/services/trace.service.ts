@@ -48,6 +48,9 @@ import {
 import { writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { renderTraceabilityReport } from '../pdf/traceability-report.tsx';
+import { renderForwardReport } from '../pdf/forward-report.tsx';
+import { FORWARD_REPORT_COLUMNS, type ForwardReportRow } from '../../shared/schemas/trace.ts';
+import { shownStatus } from '../../shared/schemas/expiry.ts';
 import { csvLine, recordAudit } from './audit.service.ts';
 import { labDate } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
@@ -927,4 +930,95 @@ export async function reviewFlagsOf(key: string): Promise<ReviewFlagList> {
     cleared: f.cleared_at && f.cleared_by !== null ? { at: f.cleared_at, by: { id: f.cleared_by, fullName: f.cleared_by_name ?? `user ${f.cleared_by}` }, reason: f.cleared_reason ?? '' } : null,
   }));
   return { items };
+}
+
+// ------------------------------------------------------------------ forward report (recall)
+
+/**
+ * One row per preparation the forward trace reaches, in the order of `forwardPreparations`: what it is, its
+ * status today, how the trace reached it and how many labels were printed (where the recall must look).
+ */
+export async function forwardReport(identifier: string, q: TraceQuery): Promise<{ subject: TraceSubject; range: { from: string | null; to: string | null }; rows: ForwardReportRow[]; timeZone: string; labName: string }> {
+  const r = await resolveSubject(identifier);
+  const range = rangeOf(r, q);
+  const settings = await getSettings();
+  const { graph, preparationIds } = await forwardOf(r, range, settings.timeZone);
+  const preps = new Map((preparationIds.length ? await Preparation.findAll({ where: { id: preparationIds } }) : []).map((p) => [p.id, p]));
+  const byId = new Map(graph.nodes.map((n) => [n.id, n]));
+  const today = labDate(new Date(), settings.timeZone);
+  const rows = preparationIds.map((id): ForwardReportRow => {
+    const p = preps.get(id)!;
+    const nid = nodeId('preparation', id);
+    const via = graph.edges.filter((e) => e.to === nid && byId.get(e.from)?.type !== 'label_print');
+    const prints = graph.edges.filter((e) => e.from === nid && byId.get(e.to)?.type === 'label_print').map((e) => byId.get(e.to)!);
+    const from = (e: TraceEdge) => {
+      const n = byId.get(e.from);
+      const d = n?.detail as { identifier?: unknown } | undefined;
+      return typeof d?.identifier === 'string' ? d.identifier : (n?.label ?? e.from);
+    };
+    const first = via[0];
+    return {
+      identifier: p.identifier,
+      kind: kindOf(p).replace(/_/g, ' '),
+      analyte: p.analyteFormula,
+      concentration: p.concentrationDisplay ?? `${p.targetValue} ${p.targetUnit} (planned)`,
+      statusNow: shownStatus(p.status, p.expiresOn, today).status,
+      madeOn: p.createdOn,
+      expiresOn: p.expiresOn,
+      reachedVia: via.map((e) => `${from(e)} (${e.relation})`).join('; '),
+      usedAt: first?.at ?? null,
+      labelPrints: prints.length,
+      labelCopies: prints.reduce((sum, n) => sum + (typeof n.detail.copies === 'number' ? n.detail.copies : 0), 0),
+    };
+  });
+  return { subject: r.subject, range, rows, timeZone: settings.timeZone, labName: settings.labName };
+}
+
+/** A CSV cell a spreadsheet will not run: a leading = + - @ tab or CR gets a single quote before it. */
+export function inertCell(value: string | number | null): string {
+  const s = value === null ? '' : String(value);
+  return /^[=+\-@\t\r]/.test(s) ? `'${s}` : s;
+}
+
+/** The audit entity each trace subject is recorded under (the register it comes from). */
+const AUDIT_ENTITY_OF: Record<TraceSubject['type'], string> = { preparation: 'preparation', material_lot: 'reference_material', balance: 'balance', volumetric_ware: 'volumetric_ware', solvent_lot: 'solvent' };
+
+async function recordForwardExport(actor: Actor, r: { subject: TraceSubject; range: { from: string | null; to: string | null } }, count: number, format: 'pdf' | 'csv'): Promise<void> {
+  await writeTransaction((transaction) =>
+    recordAudit(
+      {
+        actor,
+        action: 'export',
+        entity: AUDIT_ENTITY_OF[r.subject.type],
+        entityId: r.subject.id,
+        changes: [
+          { field: 'kind', oldValue: null, newValue: `forward_report_${format}` },
+          { field: 'range', oldValue: null, newValue: `${r.range.from ?? 'start'} to ${r.range.to ?? 'today'}` },
+          { field: 'preparations', oldValue: null, newValue: count },
+        ],
+      },
+      transaction,
+    ),
+  );
+}
+
+const forwardFilename = (s: TraceSubject, ext: string) => `${s.identifier}-forward-trace.${ext}`;
+
+/** GET /api/trace/:identifier/forward-report.pdf (each report served is audited as an export). */
+export async function forwardReportPdf(identifier: string, q: TraceQuery, actor: Actor): Promise<{ pdf: Buffer; filename: string }> {
+  const f = await forwardReport(identifier, q);
+  const pdf = await renderForwardReport({ lab: { name: f.labName, timeZone: f.timeZone }, subject: f.subject, subjectWord: SUBJECT_WORD[f.subject.type], range: f.range, rows: f.rows, generatedAt: new Date().toISOString(), generatedBy: actor.fullName });
+  await recordForwardExport(actor, f, f.rows.length, 'pdf');
+  return { pdf, filename: forwardFilename(f.subject, 'pdf') };
+}
+
+/** GET /api/trace/:identifier/forward-report.csv: one row per preparation reached, columns FORWARD_REPORT_COLUMNS. */
+export async function forwardReportCsv(identifier: string, q: TraceQuery, actor: Actor): Promise<{ csv: string; filename: string }> {
+  const f = await forwardReport(identifier, q);
+  const lines = [
+    csvLine([...FORWARD_REPORT_COLUMNS]),
+    ...f.rows.map((r) => csvLine([r.identifier, r.kind, r.analyte, r.concentration, r.statusNow, r.madeOn, r.expiresOn, r.reachedVia, r.usedAt ?? '', r.labelPrints, r.labelCopies].map(inertCell))),
+  ];
+  await recordForwardExport(actor, f, f.rows.length, 'csv');
+  return { csv: lines.join(''), filename: forwardFilename(f.subject, 'csv') };
 }

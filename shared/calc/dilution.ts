@@ -29,7 +29,7 @@
 import { D, type Dec, type DecInput, toDec } from './decimal.ts';
 import { CalcError } from './errors.ts';
 import { buoyancyFactor, REFERENCE_WEIGHT_DENSITY } from './buoyancy.ts';
-import { formatResult, type RoundingRule } from './rounding.ts';
+import { formatResult, shownEstimate, type RoundingRule } from './rounding.ts';
 import { propagate, rectangular, triangular, type BudgetRow, type UncertainInput } from './uncertainty.ts';
 
 export interface DilutionBudgetRow {
@@ -293,6 +293,7 @@ function tolU(w: SeriesWare): Dec | null {
  * For each level, the in-service pipette/flask pair whose ratio gives the target most closely (exact first),
  * then class A, then the lowest expected u_r (METROLOGY §5.5 with §4.4 tolerances); bulb pipettes deliver their
  * nominal volume (≥ minAliquotMl), piston pipettes are set anywhere from 10 % of nominal to nominal (common practice).
+ * Each level gets a flask of its own (the first level in order takes its best flask; later levels the next best).
  */
 export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
   const c1 = positive(i.parentConcentration.value, 'Parent concentration');
@@ -301,13 +302,14 @@ export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
   const maxDev = toDec(i.maxDeviation ?? '0.05', 'maxDeviation');
   const pipettes = i.pipettes.filter((p) => p.status === 'in_service' && (p.kind === 'bulb_pipette' || p.kind === 'piston_pipette'));
   const flasks = i.flasks.filter((f) => f.status === 'in_service' && f.kind === 'volumetric_flask');
-  return i.levels.map((level) => {
+  const parentShown = shownEstimate(c1, i.parentConcentration.standardUncertainty); // as the record shows it, never the internal digits
+  const ranked = i.levels.map((level): SeriesLevelProposal & { options?: SeriesChoice[] } => {
     const target = { value: level.value, unit: level.unit };
     if (level.unit !== i.parentConcentration.unit) {
       return { target, choice: null, alternatives: [], message: `The level is in ${level.unit} but the parent is in ${i.parentConcentration.unit}; give levels in ${i.parentConcentration.unit}` };
     }
     const c2 = positive(level.value, 'Level concentration');
-    if (c2.gte(c1)) return { target, choice: null, alternatives: [], message: `${level.value} ${level.unit} is not below the parent's ${c1.toString()} ${level.unit}, so it is not a dilution` };
+    if (c2.gte(c1)) return { target, choice: null, alternatives: [], message: `${level.value} ${level.unit} is not below the parent's ${parentShown} ${level.unit}, so it is not a dilution` };
     const ratio = c2.div(c1);
     const options: Array<SeriesChoice & { score: [Dec, number, Dec] }> = [];
     for (const f of flasks) {
@@ -360,10 +362,25 @@ export function proposeSeries(i: ProposeSeriesInput): SeriesLevelProposal[] {
         target,
         choice: null,
         alternatives: [],
-        message: `No in-service pipette and flask give ${level.value} ${level.unit} from ${c1.toString()} ${level.unit} within ${maxDev.mul(100).toString()} % (aliquot ≥ ${minAliquot.toString()} mL for bulb pipettes, ≥ 10 % of nominal for piston pipettes)`,
+        message: `No in-service pipette and flask give ${level.value} ${level.unit} from ${parentShown} ${level.unit} within ${maxDev.mul(100).toString()} % (aliquot ≥ ${minAliquot.toString()} mL for bulb pipettes, ≥ 10 % of nominal for piston pipettes)`,
       };
     }
-    return { target, choice: clean[0]!, alternatives: clean.slice(1, 6) };
+    return { target, choice: null, alternatives: [], options: clean };
+  });
+  // One flask holds one level: levels take their best pair in order, each with a flask no earlier level took;
+  // a pipette is rinsed and used again, so pipettes may repeat.
+  const taken = new Set<number>();
+  const choices = ranked.map((l) => {
+    const c = l.options?.find((o) => !taken.has(o.flask.id)) ?? null;
+    if (c) taken.add(c.flask.id);
+    return c;
+  });
+  return ranked.map(({ options, ...l }, k) => {
+    if (!options) return l;
+    const choice = choices[k]!;
+    if (!choice) return { ...l, message: `Every flask that gives ${l.target.value} ${l.target.unit} is taken by another level of this series` };
+    const others = new Set(choices.filter((c, j) => c && j !== k).map((c) => c!.flask.id));
+    return { ...l, choice, alternatives: options.filter((o) => o !== choice && !others.has(o.flask.id)).slice(0, 5) };
   });
 }
 

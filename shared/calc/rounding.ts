@@ -203,3 +203,20 @@ export function significantFigureResult(value: DecInput, inputsAsTyped: TypedInp
   }
   return { value: roundToSignificant(value, best, rule), significantFigures: best, limitedBy };
 }
+
+/**
+ * A result's estimate as a record shows it, for messages: rounded to the decimal position of its expanded
+ * uncertainty (GUM 7.2.6 via roundGUM, U = k·u), or to 6 significant digits when no uncertainty is known or
+ * the rounding would need an exponent. "1003.8063975891223363" with u = 1.05 → "1003.8".
+ */
+export function shownEstimate(value: DecInput, standardUncertainty?: DecInput | null, k: DecInput = '2'): string {
+  const y = toDec(value, 'value');
+  if (standardUncertainty !== undefined && standardUncertainty !== null && standardUncertainty !== '') {
+    const U = toDec(standardUncertainty, 'uncertainty').mul(toDec(k, 'coverage factor k'));
+    if (U.gt(0)) {
+      const r = roundGUM(y, U);
+      if (r.exponent === undefined) return r.value;
+    }
+  }
+  return y.toSignificantDigits(6).toString();
+}

@@ -17,6 +17,8 @@ export interface StabilitySubject {
 
 export interface StabilityChoice {
   days: number;
+  /** how solutions under the chosen rule are stored, when the rule says */
+  storage?: string;
   /** recorded on the record, e.g. "rule SR-12: study ST-2024-07" */
   basis: string;
   ruleId?: string;
@@ -53,5 +55,5 @@ export function selectStabilityRule(rules: readonly StabilityRule[] | undefined,
     if (!best || specificity > best.specificity) best = { rule, specificity };
   }
   if (!best) return { days: fallback.days, basis: `lab default: ${fallback.basis}` };
-  return { days: best.rule.days, basis: `rule ${best.rule.id}: ${best.rule.basis}`, ruleId: best.rule.id };
+  return { days: best.rule.days, basis: `rule ${best.rule.id}: ${best.rule.basis}`, ruleId: best.rule.id, ...(best.rule.storage ? { storage: best.rule.storage } : {}) };
 }

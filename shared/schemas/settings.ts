@@ -41,6 +41,8 @@ export const stabilityRuleSchema = z.object({
   }),
   days: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 3650 days').max(3650, 'Use 0 to 3650 days'),
   basis: lineText({ error: 'Say where the period comes from (study or SOP)' }).trim().min(1, 'Say where the period comes from (study or SOP)').max(200, 'Use at most 200 characters'),
+  /** how solutions under this rule are stored (printed on their labels); unset: settings.solutionStorage */
+  storage: lineText({ error: 'Say how the solutions are stored' }).trim().min(1, 'Say how the solutions are stored').max(120, 'Use at most 120 characters').optional(),
 });
 export type StabilityRule = z.infer<typeof stabilityRuleSchema>;
 
@@ -64,10 +66,15 @@ export const labSettingsSchema = z.object({
   expiryNoticeDays: z.number({ error: 'Enter a whole number of days' }).int('Enter a whole number of days').min(0, 'Use 0 to 365 days').max(365, 'Use 0 to 365 days').optional(),
   /** Minutes without activity after which a session ends (unset: DEFAULT_SESSION_IDLE_MINUTES; Annex 11 §12). */
   sessionIdleMinutes: z.number({ error: 'Enter a whole number of minutes' }).int('Enter a whole number of minutes').min(5, 'Use 5 to 480 minutes').max(480, 'Use 5 to 480 minutes').optional(),
+  /** How prepared solutions are stored, printed on their labels (a stability rule may say otherwise; unset: DEFAULT_SOLUTION_STORAGE). */
+  solutionStorage: lineText({ error: 'Say how prepared solutions are stored' }).trim().min(1, 'Say how prepared solutions are stored').max(120, 'Use at most 120 characters').optional(),
 });
 
 /** Used when settings.sessionIdleMinutes is unset (common practice for shared lab terminals: 30 min). */
 export const DEFAULT_SESSION_IDLE_MINUTES = 30;
+
+/** Used when settings.solutionStorage is unset: a lab rule to replace with the lab's own (common practice for aqueous standards). */
+export const DEFAULT_SOLUTION_STORAGE = 'Tightly closed, room temperature, away from light';
 
 /** Used when settings.expiryNoticeDays is unset (a lab choice, common practice: two weeks' notice). */
 export const DEFAULT_EXPIRY_NOTICE_DAYS = 14;

@@ -146,3 +146,30 @@ export interface ExpiryDigestResult {
   /** the lab date the digest was run for */
   on: string;
 }
+
+/**
+ * The forward traceability report of any traced item (a lot, a balance, ware, a standard), for a recall:
+ *   GET /api/trace/:identifier/forward-report.pdf?from=&to=&sinceLastGoodCheck=1   qa, admin, chemist
+ *   GET /api/trace/:identifier/forward-report.csv?from=&to=&sinceLastGoodCheck=1   qa, admin, chemist
+ * One row per preparation the forward trace reaches (the same set and order as `forwardPreparations`).
+ */
+export const FORWARD_REPORT_COLUMNS = ['identifier', 'kind', 'analyte', 'concentration', 'status_now', 'made_on', 'expires_on', 'reached_via', 'used_at', 'label_prints', 'label_copies'] as const;
+
+export interface ForwardReportRow {
+  identifier: string;
+  kind: string;
+  analyte: string;
+  /** the result as displayed, or the target marked "(planned)" */
+  concentration: string;
+  /** the status shown today (expired when past its expiry date) */
+  statusNow: string;
+  /** lab date the record was planned */
+  madeOn: string;
+  expiresOn: string;
+  /** how the trace reached it, e.g. "NRM-24-0931 (analyte source)", "HWL-2026-0001 (diluted into)" */
+  reachedVia: string;
+  /** UTC ISO time of that use, when it has one */
+  usedAt: string | null;
+  labelPrints: number;
+  labelCopies: number;
+}

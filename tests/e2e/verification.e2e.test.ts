@@ -247,6 +247,11 @@ describe('signatures and second-person verification', () => {
     await ip.waitForURL(new RegExp(`/preparations/${identifier}$`));
     await ip.waitForSelector('[data-testid="sign-done"]');
     expect(await text(ip, 'detail-status')).toContain('Verified');
+    // the confirmation is where the verifier is looking, not above the fold they scrolled past
+    await ip.waitForFunction(() => {
+      const r = document.querySelector('[data-testid="sign-done"]')!.getBoundingClientRect();
+      return r.top >= 0 && r.bottom <= window.innerHeight;
+    });
 
     // Both signatures, oldest first, with printed names, meanings, versions and times in the lab zone and in UTC (ES-01).
     const after = await call(ip, 'GET', `/api/preparations/${identifier}`);

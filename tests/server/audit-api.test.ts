@@ -333,6 +333,24 @@ describe('GET /api/audit/records/:entity/:entityId', () => {
     expectErrorBody(bad.body, 'not_found');
   });
 
+  it('when the trail of a preparation is asked for, then it holds the entries of its weighings and make-ups too (aliquots and gravimetric readings alike), oldest first', async () => {
+    const sequelize = AuditEntry.sequelize!;
+    for (const [entity, table] of [['weighing', 'weighings'], ['make_up', 'make_ups']] as const) {
+      const [part] = (await sequelize.query(`SELECT id, preparation_id AS preparationId FROM ${table} ORDER BY id LIMIT 1`))[0] as Array<{ id: number; preparationId: number }>;
+      expect(part, `the demo lab has a row in ${table}`).toBeDefined();
+      const res = await request(t.app).get(`/api/audit/records/preparation/${part!.preparationId}`).set('Cookie', technician);
+      expect(res.status).toBe(200);
+      const items = res.body.items as Array<{ id: number; entity: string; entityId: string }>;
+      expect(items).toContainEqual(expect.objectContaining({ entity, entityId: String(part!.id) }));
+      expect(items.some((e) => e.entity === 'preparation' && e.entityId === String(part!.preparationId))).toBe(true);
+      const ids = items.map((e) => e.id);
+      expect([...ids].sort((a, b) => a - b)).toEqual(ids);
+      // nothing of another preparation
+      const own = new Set((await sequelize.query(`SELECT CAST(id AS TEXT) AS id FROM ${table} WHERE preparation_id = ?`, { replacements: [part!.preparationId] }))[0].map((r) => (r as { id: string }).id));
+      for (const e of items.filter((i) => i.entity === entity)) expect(own.has(e.entityId)).toBe(true);
+    }
+  });
+
   it('when a record has no history, then an empty list', async () => {
     const res = await request(t.app).get('/api/audit/records/preparation/HWL-NOPE').set('Cookie', chemist);
     expect(res.body).toEqual({ items: [] });

@@ -270,6 +270,27 @@ describe('calibration series', () => {
     expect(Object.keys(res.body.error.fields)).toEqual(['levels.1.target']);
   });
 
+  it('one flask, one solution: a proposal never offers the flask the stock is still in, nor one flask for two levels; creating a series with one flask twice is refused at the field', async () => {
+    const prop = await send('chemist', 'post', '/api/series/proposal', { parentKey: parent.identifier, levels: [{ value: '10', unit: 'mg/L' }, { value: '20', unit: 'mg/L' }, { value: '50', unit: 'mg/L' }] });
+    expect(prop.status, JSON.stringify(prop.body)).toBe(200);
+    const offered = prop.body.levels.flatMap((l: any) => [l.choice, ...l.alternatives].filter(Boolean).map((c: any) => c.flask.identifier));
+    expect(offered).not.toContain('VF-100-01'); // the parent was made up in VF-100-01 and is not discarded
+    const chosen = prop.body.levels.map((l: any) => l.choice?.flask.identifier).filter(Boolean);
+    expect(chosen.length).toBeGreaterThan(1);
+    expect(new Set(chosen).size).toBe(chosen.length);
+    const res = await send('chemist', 'post', '/api/series', {
+      parentKey: parent.identifier,
+      levels: [
+        { target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] },
+        { target: { value: '20', unit: 'mg/L' }, pipetteId: ids.ware['BP-2-01'], flaskId: ids.ware['VF-100-02'] },
+      ],
+    });
+    expect(res.status).toBe(400);
+    expectErrorBody(res.body, 'validation_failed');
+    expect(Object.keys(res.body.error.fields)).toEqual(['levels.1.flaskId']);
+    expect(res.body.error.fields['levels.1.flaskId']).toMatch(/VF-100-02 is already the flask of level 1/);
+  });
+
   it('unknown series → 404; an unverified parent → 422', async () => {
     expect((await send('chemist', 'get', '/api/series/HWL-2026-S999')).status).toBe(404);
     const planned = await stock();

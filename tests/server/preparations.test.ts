@@ -400,6 +400,9 @@ describe('make-up and recomputation (REQUIREMENTS TR-09)', () => {
     const lot = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ solventLot: 'NOT-THE-LOT' }));
     expect(lot.status).toBe(400);
     expect(lot.body.error.fields).toHaveProperty('solventLot');
+    // the refusal never gives away the registered lot (it must be read from the bottle)
+    const registeredLot = water().lot;
+    expect(JSON.stringify(lot.body)).not.toContain(registeredLot);
     const sub = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ flaskIdentifier: 'VF-100-02' }));
     expect(sub.status).toBe(201);
     expect(sub.body.makeUp.flask).toMatchObject({ identifier: 'VF-100-02', substituted: true, snapshot: { identifier: 'VF-100-02', nominalVolumeMl: '100' } });

@@ -64,6 +64,8 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/trace/:identifier', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
   { method: 'get', path: '/api/trace/:identifier/report.pdf', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
   { method: 'get', path: '/api/trace/:identifier/report.csv', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
+  { method: 'get', path: '/api/trace/:identifier/forward-report.pdf', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
+  { method: 'get', path: '/api/trace/:identifier/forward-report.csv', allowed: ['qa', 'admin', 'chemist'], ok: 200 },
   { method: 'get', path: '/api/preparations/:key/review-flags', allowed: 'signedIn', ok: 200 },
   { method: 'post', path: '/api/admin/expiry-digest', allowed: ['admin'], ok: 200 },
   { method: 'get', path: '/api/series', allowed: 'signedIn', ok: 200 },

@@ -17,6 +17,7 @@ import { lineageQueries, useCreateDilution } from './api/lineage-api.ts';
 import { aliquotFor, expectedDilution } from './expected-dilution.ts';
 import { labToday, parentConcentration, parentRefusal } from './parent-check.ts';
 import { D } from '../../../shared/calc/decimal.ts';
+import { shownEstimate } from '../../../shared/calc/rounding.ts';
 import type { VolumetricWare } from '../../../shared/schemas/inventory.ts';
 import type { DilutionMethod } from '../../../shared/schemas/lineage.ts';
 import { GravimetricForm } from './components/gravimetric-form.tsx';
@@ -97,7 +98,7 @@ export function DilutePage() {
       t = null;
     }
     if (!t || !t.isFinite() || t.lte(0)) errs['target.value'] = 'Enter the target concentration as a positive number';
-    else if (conc && t.gte(new D(conc.value))) errs['target.value'] = `The target must be below the parent's ${conc.value} ${conc.unit}`;
+    else if (conc && t.gte(new D(conc.value))) errs['target.value'] = `The target must be below the parent's ${shownEstimate(conc.value, conc.standardUncertainty)} ${conc.unit}`;
     if (!pipette) errs.pipetteId = 'Choose a pipette';
     if (!flask) errs.flaskId = 'Choose a volumetric flask';
     else if (pipette && new D(pipette.nominalVolumeMl).gte(new D(flask.nominalVolumeMl))) errs.flaskId = 'The flask must be larger than the pipette';
@@ -209,7 +210,7 @@ export function DilutePage() {
                 <p className="text-ink-soft">
                   Dilution 1 : <span className="num">{new D(expected.dilutionFactor).toSignificantDigits(6).toString()}</span> ({qty({ value: delivered!.nominalVolumeMl, unit: 'mL' })} into{' '}
                   {qty({ value: flask!.nominalVolumeMl, unit: 'mL' })}); relative standard uncertainty{' '}
-                  <span className="num" data-testid="dilute-expected-relative">{percent(expected.relative, 2)}</span> from the parent and the two tolerances (METROLOGY §5.5).
+                  <span className="num" data-testid="dilute-expected-relative">{percent(expected.relative, 2)}</span> from the parent and the two tolerances.
                 </p>
                 {off && off.gt('0.05') ? (
                   <p className="font-semibold text-caution-700" data-testid="dilute-target-mismatch">

@@ -18,7 +18,8 @@ import { isDilution } from '../lineage/components/lineage-section.tsx';
 import { DilutionBench } from '../lineage/components/dilution-bench.tsx';
 import { GravimetricBench, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
 import { MixBench } from '../mixes/components/mix-bench.tsx';
-import { isMix } from '../mixes/components/mix-panel.tsx';
+import { isMix, mixOf } from '../mixes/components/mix-panel.tsx';
+import { shownEstimate } from '../../../shared/calc/rounding.ts';
 
 /** The bench view: target and window huge, then record the weighing and the make-up. Glove-sized targets. */
 export function BenchPage() {
@@ -60,10 +61,16 @@ export function BenchPage() {
           </span>
         }
       >
-        {d.materialName} as <span className="num">{d.analyteFormula}</span>, target{' '}
-        <span className="num">
-          {d.target.value} {d.target.unit}
-        </span>{' '}
+        {mixOf(d) ? (
+          <MixTargets d={d} />
+        ) : (
+          <>
+            {d.materialName} as <span className="num">{d.analyteFormula}</span>, target{' '}
+            <span className="num">
+              {d.target.value} {d.target.unit}
+            </span>
+          </>
+        )}{' '}
         in{' '}
         <span className="num">
           {d.volume.value} {d.volume.unit}
@@ -179,5 +186,24 @@ export function BenchPage() {
       </div>
       )}
     </div>
+  );
+}
+
+/** A mix has one target per analyte (each component's planned concentration), never only the first one's. */
+export function MixTargets({ d }: { d: Parameters<typeof mixOf>[0] }) {
+  const mix = mixOf(d)!;
+  return (
+    <span data-testid="bench-mix-targets">
+      Mix of {mix.components.length} analytes, targets{' '}
+      {mix.components.map((c, i) => (
+        <span key={c.linkId}>
+          {i > 0 ? (i === mix.components.length - 1 ? ' and ' : ', ') : ''}
+          <span className="num font-semibold" data-testid={`bench-mix-target-${c.analyteFormula}`}>
+            {c.analyteFormula} {shownEstimate(c.planned.value, c.planned.standardUncertainty, c.planned.k)} {c.planned.unit}
+          </span>{' '}
+          (from <span className="num">{c.parent.identifier}</span>)
+        </span>
+      ))}
+    </span>
   );
 }

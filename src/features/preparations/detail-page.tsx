@@ -11,7 +11,7 @@ import { BudgetChart } from './components/budget-chart.tsx';
 import { ResultSummary } from './components/result-summary.tsx';
 import { StageBadge } from './components/stage-badge.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
-import { balanceDecimals, formatLabTime, qty, statusLabel } from './format.ts';
+import { balanceDecimals, calcVersionName, expiryReasonText, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
 import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
@@ -153,7 +153,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         </p>
         <p data-testid="detail-expiry">
           Expires <span className="num font-semibold text-ink">{d.expiry.expiresOn}</span>
-          {d.expiry.reason ? ` — ${d.expiry.reason}` : ''}
+          {d.expiry.reason ? ` — ${expiryReasonText(d.expiry.reason, d.stage !== 'complete')}` : ''}
         </p>
       </PageHeader>
 
@@ -194,7 +194,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
         <Panel title="Result" id="detail-result">
           <ResultSummary result={d.result} />
           <p className="mt-3 text-sm text-ink-soft">
-            Computed {formatLabTime(d.result.computedAt, tz)} (calculation {d.result.calcVersion}) from weighing #{d.result.basedOn.weighingId}
+            Computed {formatLabTime(d.result.computedAt, tz)} ({calcVersionName(d.result.calcVersion)}) from weighing #{d.result.basedOn.weighingId}
             {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume {qty(d.result.volume)}.
           </p>
         </Panel>

@@ -72,3 +72,21 @@ export function percent(s: string | null | undefined, decimals = 1): string {
     return '—';
   }
 }
+
+/**
+ * The name of a calculation version for the screen: "dilution-1 (METROLOGY §5.5: …)" → "calculation dilution-1".
+ * The stored string keeps its internal references (it is part of the record); the screen shows none.
+ */
+export function calcVersionName(calcVersion: string): string {
+  return `calculation ${calcVersion.replace(/\s*\(.*$/s, '').trim()}`;
+}
+
+/**
+ * The expiry reason for the screen, said once: the stored reason starts "Expires on <date>, …" and the date is
+ * already shown beside it. A record not yet made up was not "prepared": its date is the planned one.
+ */
+export function expiryReasonText(reason: string, notYetMadeUp: boolean): string {
+  let r = reason.replace(/^Expires on \d{4}-\d{2}-\d{2},\s*/, '');
+  if (notYetMadeUp) r = r.replace(/\bprepared (\d{4}-\d{2}-\d{2})/g, 'planned for $1').replace(/before the preparation date/g, 'before the planned date');
+  return r.charAt(0).toUpperCase() + r.slice(1);
+}

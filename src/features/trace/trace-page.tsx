@@ -10,7 +10,7 @@ import { Link, useSearchParams } from 'react-router';
 import { Button } from '../../components/ui/button.tsx';
 import { Banner, PageHeader, Panel, Spinner } from '../../components/ui/feedback.tsx';
 import { useAuth } from '../auth/use-auth.ts';
-import { reportUrl, traceQueries, useFlagForReview, type TraceRange } from './api/trace-api.ts';
+import { forwardReportUrl, reportUrl, traceQueries, useFlagForReview, type TraceRange } from './api/trace-api.ts';
 import { GraphLegend, LineageGraph, LineageList, mergeGraphs, nodeLook } from './components/lineage-graph.tsx';
 import { subjectNodeId, type ReviewFlagsCreated, type TraceResponse } from './types.ts';
 
@@ -152,7 +152,17 @@ function TraceResult({ trace, range, view, setView }: { trace: TraceResponse; ra
           </p>
         ) : null}
         <div className="mt-4">
-          <h3 className="mb-2 font-bold">Preparations made from it ({forwardPreps.length})</h3>
+          <div className="mb-2 flex flex-wrap items-baseline justify-between gap-3">
+            <h3 className="font-bold">Preparations made from it ({forwardPreps.length})</h3>
+            <p className="flex flex-wrap gap-3">
+              <a href={forwardReportUrl(trace.subject.identifier, 'pdf', range)} className="inline-flex min-h-12 items-center font-semibold text-brass-600 underline" data-testid="trace-forward-report-pdf">
+                Forward report for a recall (PDF)
+              </a>
+              <a href={forwardReportUrl(trace.subject.identifier, 'csv', range)} className="inline-flex min-h-12 items-center font-semibold text-brass-600 underline" data-testid="trace-forward-report-csv">
+                Forward report as CSV
+              </a>
+            </p>
+          </div>
           {forwardPreps.length ? (
             <ul className="flex flex-wrap gap-2" data-testid="trace-forward-preparations">
               {forwardPreps.map((id) => (
@@ -176,7 +186,7 @@ function TraceResult({ trace, range, view, setView }: { trace: TraceResponse; ra
           {(
             [
               ['backward', `Backward: made from (${Math.max(0, trace.backward.nodes.length - 1)})`],
-              ['forward', `Forward: used in (${Math.max(0, trace.forward.nodes.length - 1)})`],
+              ['forward', `Forward: used in (${forwardPreps.length})`], // the preparations listed above; label prints are shown, not counted
             ] as const
           ).map(([v, label]) => (
             <button

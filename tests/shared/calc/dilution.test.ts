@@ -125,25 +125,43 @@ describe('calibration series proposal', () => {
   const levels = ['1', '2', '5', '10', '20'].map((value) => ({ value, unit: 'mg/L' }));
   const proposals = () => proposeSeries({ parentConcentration: { value: '1000', unit: 'mg/L', standardUncertainty: '1.3' }, levels, pipettes, flasks });
 
-  it('5 levels from 1000 mg/L: every level exact, class A, lowest u_r (METROLOGY §5.5, §4.4; common practice)', () => {
+  it('5 levels from 1000 mg/L: every level exact, each in its own flask, class A, lowest u_r (METROLOGY §5.5, §4.4; common practice)', () => {
     const p = proposals();
     expect(p).toHaveLength(5);
-    const pick = p.map((l) => `${l.choice!.pipette.identifier}→${l.choice!.flask.identifier}`);
+    const pick = p.map((l) => (l.choice ? `${l.choice.pipette.identifier}→${l.choice.flask.identifier}` : null));
     // 1 mg/L: 1 mL into 1000 mL (u_r 3.3e-3) beats 0.1 mL by piston into 100 mL (u_r 4.6e-2) and 0.5 mL bulb (below 1 mL)
-    // 10 mg/L: 10 mL into 1000 mL (u_r 8.2e-4 for the pipette) beats 1 mL into 100 mL (3.3e-3) [derivation: u = a/√6]
-    expect(pick).toEqual(['BP-1→VF-1000', 'BP-2→VF-1000', 'BP-5→VF-1000', 'BP-10→VF-1000', 'BP-2→VF-100']);
-    for (const l of p) {
+    // [derivation: u = a/√6]; the next levels take the best pair whose flask no earlier level took; four flasks
+    // hold four levels, so the fifth says why it has none
+    expect(pick).toEqual(['BP-1→VF-1000', 'PP-1000→VF-100', 'PP-1000→VF-50', 'BP-1→VF-100B', null]);
+    expect(p[4]!.message).toMatch(/taken by another level/);
+    for (const l of p.slice(0, 4)) {
       expect(l.choice!.exact).toBe(true);
       expect(new D(l.choice!.concentration).eq(l.target.value)).toBe(true);
     }
-    // u_r for 20 mg/L: √((1.3e-3)² + (0.010/√6/2)² + (0.10/√6/100)²) [METROLOGY §5.5 formula]
-    const ur = new D('1.3e-3').pow(2).plus(triangular('0.010').div(2).pow(2)).plus(triangular('0.10').div(100).pow(2)).sqrt();
-    expectClose(p[4]!.choice!.expectedRelativeU!, ur, '1e-15');
+    // u_r for 1 mg/L: √((1.3e-3)² + (0.008/√6/1)² + (0.40/√6/1000)²) [METROLOGY §5.5 formula]
+    const ur = new D('1.3e-3').pow(2).plus(triangular('0.008').div(1).pow(2)).plus(triangular('0.40').div(1000).pow(2)).sqrt();
+    expectClose(p[0]!.choice!.expectedRelativeU!, ur, '1e-15');
+  });
+
+  it('never proposes one flask for two levels, nor a flask another level took as an alternative (one flask, one solution)', () => {
+    const withFive = [...flasks, ware(15, 'VF-200', 'volumetric_flask', '200', 'A', '0.15')];
+    const p = proposeSeries({ parentConcentration: { value: '1000', unit: 'mg/L', standardUncertainty: '1.3' }, levels, pipettes, flasks: withFive });
+    const chosen = p.map((l) => l.choice!.flask.identifier);
+    expect(new Set(chosen).size).toBe(5);
+    p.forEach((l, k) => {
+      for (const a of l.alternatives) expect(chosen.filter((_, j) => j !== k)).not.toContain(a.flask.identifier);
+    });
+  });
+
+  it('says the parent concentration as the record shows it, never its internal digits', () => {
+    const p = proposeSeries({ parentConcentration: { value: '1003.8063975891223363', unit: 'mg/L', standardUncertainty: '1.05' }, levels: [{ value: '2000', unit: 'mg/L' }], pipettes, flasks });
+    // U = 2 × 1.05 = 2.1 → one decimal (GUM 7.2.6)
+    expect(p[0]!.message).toBe("2000 mg/L is not below the parent's 1003.8 mg/L, so it is not a dilution");
   });
 
   it('never proposes out-of-service ware, bulb aliquots below the minimum, or piston settings below 10 % of nominal (common practice)', () => {
     for (const l of proposals()) {
-      for (const c of [l.choice!, ...l.alternatives]) {
+      for (const c of [...(l.choice ? [l.choice] : []), ...l.alternatives]) {
         expect(c.pipette.identifier).not.toBe('BP-20-OOS');
         expect(c.pipette.identifier).not.toBe('BP-0.5');
         if (c.pipette.kind === 'piston_pipette') expect(new D(c.aliquotMl).gte('0.1')).toBe(true);

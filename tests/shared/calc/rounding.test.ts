@@ -10,6 +10,7 @@ import {
   roundGUM,
   formatResult,
   significantFigureResult,
+  shownEstimate,
   CalcError,
   D,
 } from '../../../shared/calc/index.ts';
@@ -162,5 +163,17 @@ describe('GUM rounding (JCGM 100 §7.2.6)', () => {
     expect(() => roundGUM('1', '0')).toThrow(expect.objectContaining({ code: 'non_positive' }));
     expect(() => roundGUM('1', '-1')).toThrow(expect.objectContaining({ code: 'non_positive' }));
     expect(() => roundGUM('1', '1', { digits: 3 as never })).toThrow(expect.objectContaining({ code: 'calc_out_of_range' }));
+  });
+});
+
+describe('shownEstimate: the estimate as a record shows it, for messages', () => {
+  it('rounds to the decimal position of U = 2u (GUM 7.2.6): 1003.8063975891223363 with u = 1.05 → 1003.8 [worked example, U = 2.1]', () => {
+    expect(shownEstimate('1003.8063975891223363', '1.05')).toBe('1003.8');
+    expect(shownEstimate('9.99812345', '0.0095')).toBe('9.998'); // U = 0.019 → three decimals
+  });
+  it('without an uncertainty, or when GUM rounding needs an exponent, gives 6 significant digits (common practice)', () => {
+    expect(shownEstimate('1003.8063975891223363')).toBe('1003.81');
+    expect(shownEstimate('1003.8063975891223363', null)).toBe('1003.81');
+    expect(shownEstimate('123456.789', '600')).toBe('123457');
   });
 });

@@ -1,5 +1,5 @@
 import type { AuditChange } from '../../../../shared/schemas/audit.ts';
-import { formatValue } from '../format-audit.ts';
+import { fieldLabel, formatValue } from '../format-audit.ts';
 
 /** Field, old value, new value for one entry; values exactly as recorded. */
 export function ChangeList({ changes }: { changes: AuditChange[] }) {
@@ -8,7 +8,9 @@ export function ChangeList({ changes }: { changes: AuditChange[] }) {
     <dl className="grid grid-cols-[minmax(6rem,auto)_1fr] gap-x-3 gap-y-1 text-sm" data-testid="audit-changes">
       {changes.map((c, i) => (
         <div key={`${c.field}-${i}`} className="contents">
-          <dt className="font-semibold [overflow-wrap:anywhere]">{c.field}</dt>
+          <dt className="font-semibold [overflow-wrap:anywhere]" title={c.field}>
+            {fieldLabel(c.field)}
+          </dt>
           <dd className="num [overflow-wrap:anywhere]">
             <span className="text-ink-soft line-through decoration-1" aria-label={`old value ${formatValue(c.oldValue)}`}>
               {formatValue(c.oldValue)}

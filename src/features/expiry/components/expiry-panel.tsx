@@ -10,7 +10,7 @@ import { ApiError } from '../../../lib/api-client.ts';
 import { EXPIRY_EXTENSION_MEANING_TEXT } from '../../../../shared/schemas/expiry.ts';
 import { SIGNATURE_RESPONSIBILITY_STATEMENT, type PreparationDetail } from '../../../../shared/schemas/preparations.ts';
 import { useAuth } from '../../auth/use-auth.ts';
-import { formatLabTime, statusLabel } from '../../preparations/format.ts';
+import { expiryReasonText, formatLabTime, statusLabel } from '../../preparations/format.ts';
 import { useExtendExpiry } from '../api/expiry-mutations.ts';
 import { acknowledgeProblem, extendFormSchema, toInput, type ExtendFormValues } from '../form-schema.ts';
 import { addDays } from '../../../../shared/prep/dates.ts';
@@ -18,7 +18,7 @@ import { addDays } from '../../../../shared/prep/dates.ts';
 type ExpiryDetail = Pick<
   PreparationDetail,
   'identifier' | 'version' | 'status' | 'statusBeforeExpiry' | 'expiry' | 'expiryExtensions' | 'expiryCap' | 'canExtendExpiry' | 'canSign'
->;
+> & Partial<Pick<PreparationDetail, 'stage'>>;
 
 /**
  * A record past its expiry says so above everything else (REQUIREMENTS EX-04): it cannot be used as a parent
@@ -51,7 +51,7 @@ export function ExpiryPanel({ d, timeZone }: { d: ExpiryDetail; timeZone?: strin
         <p className="text-lg">
           Expires <span className="num font-semibold" data-testid="expiry-date">{d.expiry.expiresOn}</span>
         </p>
-        <p className="text-ink-soft">{d.expiry.reason}</p>
+        <p className="text-ink-soft" data-testid="expiry-reason-text">{expiryReasonText(d.expiry.reason, d.stage !== undefined && d.stage !== 'complete')}</p>
         <p className="mt-1" data-testid="expiry-cap">
           {d.expiryCap ? (
             <>

@@ -14,6 +14,9 @@ export const balanceColumns = [
     meta: { nowrap: true },
     cell: (c) => <RecordLink to={`${KIND_INFO.balances.pagePath}/${c.row.original.id}`}>{c.getValue()}</RecordLink>,
   }),
+  // status and calibration due next to the identifier: visible on a tablet without scrolling sideways
+  col.accessor('status', { header: 'Status', cell: (c) => <StatusBadge status={c.getValue()} /> }),
+  col.accessor('calibrationDueOn', { header: 'Calibration due', cell: (c) => <CalibrationDueCell dueOn={c.getValue()} /> }),
   col.accessor('description', {
     header: 'Description',
     cell: (c) => (
@@ -26,8 +29,6 @@ export const balanceColumns = [
   col.accessor('capacityG', { header: 'Capacity (Max)', enableSorting: false, meta: { numeric: true }, cell: (c) => <Num value={c.getValue()} unit="g" /> }),
   col.accessor('readabilityMg', { header: 'Readability d', enableSorting: false, meta: { numeric: true }, cell: (c) => <Num value={c.getValue()} unit="mg" /> }),
   col.accessor('minWeightMg', { header: 'Minimum weight', enableSorting: false, meta: { numeric: true }, cell: (c) => <Num value={c.getValue()} unit="mg" /> }),
-  col.accessor('calibrationDueOn', { header: 'Calibration due', cell: (c) => <CalibrationDueCell dueOn={c.getValue()} /> }),
-  col.accessor('status', { header: 'Status', cell: (c) => <StatusBadge status={c.getValue()} /> }),
 ];
 
 export const balanceListConfig: ListConfig<'balances'> = {

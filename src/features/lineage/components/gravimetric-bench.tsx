@@ -14,7 +14,7 @@ import { gravimetricReadingsInputSchema, type GravimetricDilutionSection, type G
 import type { LineageSection } from '../../../../shared/schemas/lineage.ts';
 import { checkReadingRange } from '../../../../shared/prep/reading.ts';
 import { preparationKeys } from '../../preparations/api/preparation-keys.ts';
-import { formatLabTime, percent } from '../../preparations/format.ts';
+import { calcVersionName, formatLabTime, percent } from '../../preparations/format.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
 import { GatePanels } from '../../preparations/components/gate-panels.tsx';
 import { useAuth } from '../../auth/use-auth.ts';
@@ -63,7 +63,7 @@ export function GravimetricResultView({ g, testId = 'grav-result' }: { g: Gravim
       <p className="text-ink-soft">
         Relative standard uncertainty <span className="num">{percent(shown.massFraction.relative, 2)}</span> (mass fraction) and{' '}
         <span className="num">{percent(shown.massConcentration.relative, 2)}</span> (mass concentration, with the final solution density).
-        {r ? ` Computed from readings #${r.basedOn.readingsId} (${r.calcVersion}).` : ''}
+        {r ? ` Computed from readings #${r.basedOn.readingsId} (${calcVersionName(r.calcVersion)}).` : ''}
       </p>
     </div>
   );

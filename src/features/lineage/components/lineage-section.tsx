@@ -8,7 +8,7 @@ import { useQuery } from '@tanstack/react-query';
 import { Link } from 'react-router';
 import { useAuth } from '../../auth/use-auth.ts';
 import { Panel } from '../../../components/ui/feedback.tsx';
-import { percent, statusLabel } from '../../preparations/format.ts';
+import { calcVersionName, percent, statusLabel } from '../../preparations/format.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
 import { traceQueries } from '../../trace/api/trace-api.ts';
 import { GraphLegend, LineageGraph, LineageList, mergeGraphs } from '../../trace/components/lineage-graph.tsx';
@@ -51,7 +51,7 @@ export function DilutionPlanPanel({ d }: { d: PreparationDetail }) {
         <dd>{dil.aliquots.length ? dil.aliquots.map((a) => `${a.volumeMl} mL with ${a.pipette.identifier}${a.supersededById ? ' (superseded)' : ''}`).join('; ') : 'none yet'}</dd>
       </dl>
       <p className="mt-3 text-ink-soft">
-        {r ? `Recomputed from aliquot #${r.basedOn.aliquotId} and make-up #${r.basedOn.makeUpId} (${r.calcVersion}).` : 'The concentration is recomputed from the recorded aliquot and make-up.'}
+        {r ? `Recomputed from aliquot #${r.basedOn.aliquotId} and make-up #${r.basedOn.makeUpId} (${calcVersionName(r.calcVersion)}).` : 'The concentration is recomputed from the recorded aliquot and make-up.'}
       </p>
       {d.notes ? <p className="mt-3">Notes: {d.notes}</p> : null}
     </Panel>

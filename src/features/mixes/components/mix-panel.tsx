@@ -7,7 +7,7 @@ import { Link } from 'react-router';
 import { Panel } from '../../../components/ui/feedback.tsx';
 import type { LineageSection, MixComponent } from '../../../../shared/schemas/lineage.ts';
 import { useAuth } from '../../auth/use-auth.ts';
-import { percent } from '../../preparations/format.ts';
+import { calcVersionName, percent } from '../../preparations/format.ts';
 import type { PreparationDetail } from '../../preparations/types.ts';
 import { mixParentRefusal } from '../mix-form.ts';
 
@@ -87,8 +87,8 @@ export function MixPanel({ d }: { d: PreparationDetail }) {
       </div>
       <p className="mt-3 text-ink-soft">
         Made up to <span className="num">{mix.plannedFinalMl} mL</span>. Each analyte: c = c<sub>parent</sub> × V<sub>aliquot</sub> / V<sub>flask</sub>, with the parent&apos;s uncertainty and both
-        glassware tolerances in its budget (METROLOGY §5.5).
-        {done ? ` Recomputed from the current aliquots and make-up #${mix.components[0]!.result!.basedOn.makeUpId} (${mix.components[0]!.result!.calcVersion}).` : ''}
+        glassware tolerances in its budget.
+        {done ? ` Recomputed from the current aliquots and make-up #${mix.components[0]!.result!.basedOn.makeUpId} (${calcVersionName(mix.components[0]!.result!.calcVersion)}).` : ''}
       </p>
       {d.notes ? <p className="mt-3">Notes: {d.notes}</p> : null}
     </Panel>

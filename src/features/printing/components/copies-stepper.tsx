@@ -44,10 +44,10 @@ export function CopiesStepper({
           aria-invalid={error ? true : undefined}
           aria-describedby={error ? 'label-copies-error' : undefined}
           onChange={(e) => {
-            const s = e.target.value.replace(/[^0-9]/g, '');
+            // kept as typed ("-3" stays "-3" and is refused at the field, never silently made 3)
+            const s = e.target.value.slice(0, 8);
             onTextChange(s);
-            const n = Number(s);
-            if (s !== '' && Number.isInteger(n) && n >= 1 && n <= MAX_LABEL_COPIES) onChange(n);
+            if (!copiesError(s)) onChange(Number(s.trim()));
           }}
           className="field-input num w-28 text-center text-xl"
         />
@@ -78,8 +78,10 @@ export function CopiesStepper({
 
 /** The message for a typed copies value, or undefined when it is a whole number from 1 to 500. */
 export function copiesError(text: string): string | undefined {
-  if (text.trim() === '') return `Enter the number of copies, 1 to ${MAX_LABEL_COPIES}`;
-  const n = Number(text);
-  if (!Number.isInteger(n) || n < 1 || n > MAX_LABEL_COPIES) return `Use 1 to ${MAX_LABEL_COPIES} copies`;
+  const t = text.trim();
+  if (t === '') return `Enter the number of copies, 1 to ${MAX_LABEL_COPIES}`;
+  if (!/^\d+$/.test(t)) return `Copies are a whole number from 1 to ${MAX_LABEL_COPIES}, not ${t}`;
+  const n = Number(t);
+  if (n < 1 || n > MAX_LABEL_COPIES) return `Use 1 to ${MAX_LABEL_COPIES} copies, not ${t}`;
   return undefined;
 }

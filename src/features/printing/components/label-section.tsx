@@ -143,7 +143,7 @@ export function LabelSection({
       <TemplatePicker templates={active} value={templateId} onChange={setTemplateId} />
       <div className="flex flex-wrap items-end gap-6">
         <CopiesStepper value={copies} onChange={setCopies} text={copiesText} onTextChange={setCopiesText} error={errors.copies ?? typedCopiesError} />
-        {template ? (
+        {template && !typedCopiesError ? (
           <p className="pb-3 text-ink-soft" data-testid="label-pages">
             {copies} {copies === 1 ? 'label' : 'labels'} on {pagesFor(template, copies)} {pagesFor(template, copies) === 1 ? 'page' : 'pages'}
           </p>
@@ -211,11 +211,11 @@ export function LabelSection({
             <Button
               onClick={onPrint}
               busy={record.isPending}
-              disabled={blocked || !template || !history}
+              disabled={blocked || !template || !history || Boolean(typedCopiesError)}
               data-testid="print-labels"
               className="min-h-14 px-8 text-lg"
             >
-              {isReprint ? `Reprint ${copies} ${copies === 1 ? 'label' : 'labels'}` : `Print ${copies} ${copies === 1 ? 'label' : 'labels'}`}
+              {typedCopiesError ? (isReprint ? 'Reprint labels' : 'Print labels') : isReprint ? `Reprint ${copies} ${copies === 1 ? 'label' : 'labels'}` : `Print ${copies} ${copies === 1 ? 'label' : 'labels'}`}
             </Button>
             {blocked ? <p className="mt-2 text-bad-700">Labels cannot be printed for a record that is {detail.status}.</p> : null}
           </div>

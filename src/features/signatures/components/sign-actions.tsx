@@ -1,4 +1,4 @@
-import { useState, type ReactNode } from 'react';
+import { useEffect, useRef, useState, type ReactNode } from 'react';
 import { Link, useLocation } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
 import { Banner } from '../../../components/ui/feedback.tsx';
@@ -40,6 +40,13 @@ export function SignActions({ d }: { d: PreparationDetail }) {
   const arrived = (location.state as { signed?: SignableMeaning } | null)?.signed;
   const [meaning, setMeaning] = useState<SignableMeaning | null>(null);
   const [done, setDone] = useState<string | null>(arrived ? DONE[arrived] : null);
+  // the confirmation is brought to where the user is (the verification page may have been scrolled far down)
+  const doneRef = useRef<HTMLDivElement>(null);
+  useEffect(() => {
+    if (!done || !doneRef.current) return;
+    doneRef.current.scrollIntoView?.({ block: 'center' });
+    doneRef.current.focus({ preventScroll: true });
+  }, [done]);
   if (auth.status !== 'signed-in') return null;
   const role = auth.user.role;
   const can = d.canSign ?? { prepare: false, verify: false, return: false, discard: false, reasons: {} };
@@ -58,9 +65,11 @@ export function SignActions({ d }: { d: PreparationDetail }) {
     <div className="flex flex-col gap-3" data-testid="sign-actions">
       <StatusReasonBanner d={d} />
       {done ? (
-        <Banner tone="ok" title="Signed" testId="sign-done">
-          {done}
-        </Banner>
+        <div ref={doneRef} tabIndex={-1} role="status" className="outline-none">
+          <Banner tone="ok" title="Signed" testId="sign-done">
+            {done}
+          </Banner>
+        </div>
       ) : null}
       <div className="flex flex-wrap items-start gap-4">
         {showPrepare ? (

@@ -12,15 +12,26 @@ const TONES: Record<string, string> = {
   seal_broken: 'border-bad-700 bg-bad-700 text-white',
 };
 
-const MARKS: Record<string, string> = {
-  planned: '○',
-  prepared: '◐',
-  verified: '●',
-  returned: '↩',
-  discarded: '✕',
-  expired: '⌛',
-  seal_broken: '⚠',
-};
+/**
+ * Our own status mark, drawn beside the word (never instead of it): two signature slots, the preparer's and the
+ * verifier's. Planned: both open. Prepared: the first filled. Verified: both filled. Returned: the first slot
+ * open again with a back stroke. Discarded: both crossed out. Expired: both slots dashed.
+ * Seal broken: both slots split by a crack. Readable without colour.
+ */
+export function StatusMark({ status }: { status: string }) {
+  const filled = status === 'verified' ? 2 : status === 'prepared' ? 1 : 0;
+  const dashed = status === 'expired' ? '2 1.5' : undefined;
+  const slot = (x: number, on: boolean) => <rect x={x} y={1.5} width={7} height={11} rx={1.5} fill={on ? 'currentColor' : 'none'} stroke="currentColor" strokeWidth={1.5} strokeDasharray={dashed} />;
+  return (
+    <svg viewBox="0 0 19 14" width={19} height={14} aria-hidden="true" focusable="false" data-testid="status-mark" data-mark={status} className="shrink-0">
+      {slot(1, filled >= 1)}
+      {slot(11, filled >= 2)}
+      {status === 'returned' ? <path d="M7 7 H2.5 M4.5 4.5 L2 7 L4.5 9.5" fill="none" stroke="currentColor" strokeWidth={1.5} strokeLinecap="round" /> : null}
+      {status === 'seal_broken' ? <path d="M9.5 0.5 L7 5 L12 8 L9.5 13.5" fill="none" stroke="currentColor" strokeWidth={1.5} strokeLinejoin="round" /> : null}
+      {status === 'discarded' ? <path d="M0.5 13 L18.5 1" stroke="currentColor" strokeWidth={1.5} strokeLinecap="round" /> : null}
+    </svg>
+  );
+}
 
 export function StatusBadge({ status, testId, withHint = false }: { status: string; testId?: string; withHint?: boolean }) {
   const t = statusText(status);
@@ -31,9 +42,7 @@ export function StatusBadge({ status, testId, withHint = false }: { status: stri
       title={t.hint || undefined}
       className={`inline-flex items-center gap-1.5 whitespace-nowrap rounded-full border-2 px-3 py-0.5 text-sm font-semibold ${TONES[status] ?? TONES.planned}`}
     >
-      <span aria-hidden="true">
-        {MARKS[status] ?? '○'}
-      </span>
+      <StatusMark status={status} />
       <span>
         {t.label}
         {withHint && t.hint ? <span className="font-normal"> · {t.hint}</span> : null}

@@ -32,6 +32,11 @@ export function reportUrl(identifier: string, format: 'pdf' | 'csv', range: Trac
   return `/api/trace/${encodeURIComponent(identifier)}/report.${format}${rangeQuery(range)}`;
 }
 
+/** The forward report (everything made with the item, for a recall) of any traced identifier. */
+export function forwardReportUrl(identifier: string, format: 'pdf' | 'csv', range: TraceRange = {}): string {
+  return `/api/trace/${encodeURIComponent(identifier)}/forward-report.${format}${rangeQuery(range)}`;
+}
+
 export function useFlagForReview(identifier: string) {
   const queryClient = useQueryClient();
   return useMutation({

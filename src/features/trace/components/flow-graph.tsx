@@ -1,5 +1,6 @@
 /** The genealogy drawn with @xyflow/react (loaded on demand by LineageGraph in lineage-graph.tsx). */
 import { useMemo } from 'react';
+import { Graph, layout as dagreLayout } from '@dagrejs/dagre';
 import { Background, Controls, Handle, Position, ReactFlow, type Edge, type Node, type NodeProps } from '@xyflow/react';
 import '@xyflow/react/dist/style.css';
 import type { TraceEdge, TraceGraph, TraceNode } from '../types.ts';
@@ -10,10 +11,10 @@ type FlowData = { node: TraceNode; isSubject: boolean };
 function RecordNode({ data }: NodeProps<Node<FlowData>>) {
   const look = nodeLook(data.node);
   return (
-    <div className={`w-56 rounded-lg border-2 px-3 py-2 text-left text-sm shadow-sm ${look.className} ${data.isSubject ? 'ring-4 ring-brass-400' : ''}`}>
+    <div style={{ width: NODE_WIDTH }} className={`h-full rounded-lg border-2 px-3 py-2 text-left text-sm shadow-sm ${look.className} ${data.isSubject ? 'ring-4 ring-brass-400' : ''}`}>
       <Handle type="target" position={Position.Left} />
       <p className="text-xs font-semibold uppercase tracking-wide text-ink-soft">{look.label}</p>
-      <p className="num truncate font-bold text-ink" title={data.node.label}>
+      <p className="num font-bold text-ink [overflow-wrap:anywhere]">
         {data.node.label}
       </p>
       <p className="text-ink">Status: {nodeStatus(data.node)}</p>
@@ -54,32 +55,51 @@ function columns(backward: TraceGraph, forward: TraceGraph, subjectId: string | 
   return col;
 }
 
-function layout(backward: TraceGraph, forward: TraceGraph, subjectId: string | undefined): { nodes: Node<FlowData>[]; edges: Edge[]; tallest: number } {
+export const NODE_WIDTH = 240;
+const CHARS_PER_LINE = 22; // bold monospace text-sm in the 216 px inside a 240 px card (about 8.5 px a character)
+
+/** A node's height for its wrapped label (labels are never cut: they wrap). */
+export function nodeHeight(n: TraceNode): number {
+  const lines = Math.max(1, Math.ceil(n.label.length / CHARS_PER_LINE)) + Math.max(1, Math.ceil(`Status: ${nodeStatus(n)}`.length / 28));
+  return 44 + lines * 20;
+}
+
+/**
+ * Positions from dagre (layered, left to right: inputs, the subject, then what was made from it), so edges
+ * run between layers and crossings are kept few; edge labels get their own room between the layers.
+ */
+export function layout(backward: TraceGraph, forward: TraceGraph, subjectId: string | undefined): { nodes: Node<FlowData>[]; edges: Edge[]; width: number; height: number } {
   const graph = mergeGraphs(backward, forward);
   const col = columns(backward, forward, subjectId);
-  const min = Math.min(0, ...col.values());
-  const rows = new Map<number, number>();
+  const g = new Graph({ multigraph: true });
+  g.setGraph({ rankdir: 'LR', nodesep: 28, ranksep: 110, edgesep: 16, marginx: 8, marginy: 8 });
+  g.setDefaultEdgeLabel(() => ({}));
+  for (const n of graph.nodes) g.setNode(n.id, { width: NODE_WIDTH, height: nodeHeight(n) });
+  const edges = graph.edges.map((e) => {
+    const leftToRight = (col.get(e.from) ?? 0) <= (col.get(e.to) ?? 0);
+    const source = leftToRight ? e.from : e.to;
+    const target = leftToRight ? e.to : e.from;
+    const label = e.relation.replace(/_/g, ' ');
+    const id = `${e.from}-${e.to}-${e.relation}`;
+    g.setEdge(source, target, { label, width: label.length * 7 + 12, height: 20, labelpos: 'c' }, id);
+    return { id, source, target, label, type: 'default', labelBgPadding: [4, 2] as [number, number], labelBgStyle: { fill: '#fffdf7' } } satisfies Edge;
+  });
+  dagreLayout(g);
   const nodes = graph.nodes.map((n) => {
-    const c = (col.get(n.id) ?? 0) - min;
-    const row = rows.get(c) ?? 0;
-    rows.set(c, row + 1);
+    const p = g.node(n.id) as { x: number; y: number; width: number; height: number };
     return {
       id: n.id,
       type: 'record',
-      position: { x: c * 290, y: row * 120 },
+      position: { x: p.x - p.width / 2, y: p.y - p.height / 2 },
+      width: p.width,
+      height: p.height,
       data: { node: n, isSubject: n.id === subjectId },
       draggable: false,
       connectable: false,
     } satisfies Node<FlowData>;
   });
-  const edges = graph.edges.map((e) => ({
-    id: `${e.from}-${e.to}-${e.relation}`,
-    source: (col.get(e.from) ?? 0) <= (col.get(e.to) ?? 0) ? e.from : e.to,
-    target: (col.get(e.from) ?? 0) <= (col.get(e.to) ?? 0) ? e.to : e.from,
-    label: e.relation.replace(/_/g, ' '),
-    labelBgPadding: [4, 2] as [number, number],
-  }));
-  return { nodes, edges, tallest: Math.max(1, ...rows.values()) };
+  const box = g.graph() as { width?: number; height?: number };
+  return { nodes, edges, width: box.width ?? NODE_WIDTH, height: box.height ?? 120 };
 }
 
 export function FlowGraph({
@@ -93,8 +113,8 @@ export function FlowGraph({
   subjectId?: string;
   testId?: string;
 }) {
-  const { nodes, edges, tallest } = useMemo(() => layout(backward, forward, subjectId), [backward, forward, subjectId]);
-  const height = Math.min(560, Math.max(220, tallest * 120 + 60));
+  const { nodes, edges, height: drawn } = useMemo(() => layout(backward, forward, subjectId), [backward, forward, subjectId]);
+  const height = Math.min(760, Math.max(220, drawn + 60));
   if (nodes.length === 0) return <p className="text-ink-soft">Nothing to draw.</p>;
   return (
     <div
