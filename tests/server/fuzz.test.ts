@@ -8,7 +8,7 @@ import fc from 'fast-check';
 import type { Sequelize } from 'sequelize';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { DEMO, DEMO_PASSWORD, demoPasswordHash, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { validCalcRequest } from './helpers/calc-request.ts';
 import { validBalance, validMaterial, validSolvent, validWare } from './helpers/inventory-fixtures.ts';
 import { fillPath, registeredRouteList, type RegisteredRoute } from './helpers/routes.ts';
@@ -263,9 +263,12 @@ describe('fuzz: every state-changing route × every role', () => {
               if (odd.length) failures.push(`audited ${odd.join(', ')} on a refused request: ${label}`);
             }
           }
-          // keep the roles signed in: a fuzzed wrong signing password may lock an account or end its session
-          if (who !== 'signedOut' && res.status === 401 && res.body?.error?.code === 'unauthenticated') {
-            await t.sequelize.query('UPDATE users SET locked_at = NULL, failed_login_count = 0 WHERE email = :email', { replacements: { email: DEMO[who] } });
+          // keep the roles signed in: a fuzzed wrong signing password may lock an account or end its sessions, and an
+          // admin's accepted password reset (temporary) or sign-out everywhere ends them too
+          if (who !== 'signedOut' && ((res.status === 401 && res.body?.error?.code === 'unauthenticated') || (res.status === 403 && res.body?.error?.code === 'password_change_required'))) {
+            await t.sequelize.query('UPDATE users SET locked_at = NULL, failed_login_count = 0, must_change_password = 0, password_hash = :hash WHERE email = :email', {
+              replacements: { email: DEMO[who], hash: await demoPasswordHash() },
+            });
             cookies[who] = await sessionCookie(t.app, DEMO[who]);
           }
         }
