@@ -166,6 +166,9 @@ const ACCESS_ELSEWHERE: Record<string, Allowed> = {
   'GET /api/series/:key/sheet.pdf': 'signedIn',
   'POST /api/preparations/:key/expiry-extensions': ['qa'],
   'POST /api/mixes': ['chemist'],
+  'POST /api/auth/logout-everywhere': 'signedIn',
+  'POST /api/auth/password': 'signedIn',
+  'POST /api/sessions/:id/end': ['admin'],
 };
 
 /** The rule of every route: its row, else its ACCESS_ELSEWHERE entry. */
@@ -266,6 +269,8 @@ describe('route × role matrix generated from the router', () => {
         if (cookie) req = req.set('Cookie', cookie);
         if (route.method !== 'get') req = req.send({});
         const res = await req;
+        // signing out everywhere ends the role's other sessions too: sign it in again
+        if (who !== 'signedOut' && route.name === 'POST /api/auth/logout-everywhere') cookies[who] = await sessionCookie(t.app, DEMO[who]);
         results.push({ route: route.name, who, status: res.status });
         const cell = `${route.name} as ${who}: ${res.status} ${JSON.stringify(res.body).slice(0, 160)}`;
         if (res.status >= 500) failures.push(cell);
