@@ -292,9 +292,10 @@ describe('working standards and trace', () => {
       aliquot: { volumeMl: a.volumeMl, standardUncertainty: pip.kind === 'piston_pipette' ? tol(pip, 'pipette').div(new D(3).sqrt()) : tol(pip, 'pipette').div(new D(6).sqrt()) },
       final: { volumeMl: f.nominalVolumeMl, standardUncertainty: tol(f, 'flask').div(new D(6).sqrt()) },
     });
-    expect(await text(page, 'bench-dilution-result')).toBe(core.display);
-    expect(done.dilution.result.display).toBe(core.display);
-    expect(await text(page, 'bench-saved')).toContain(core.display);
+    // the concentration by the dilution core; its uncertainty adds the dilution-2 terms (repeatability, temperature)
+    expect(new D(done.dilution.result.value).minus(core.value).abs().lte('1e-12')).toBe(true);
+    expect(await text(page, 'bench-dilution-result')).toBe(done.dilution.result.display);
+    expect(await text(page, 'bench-saved')).toContain(done.dilution.result.display);
     await screenshot(page, 'lineage-bench-done-1280');
     await page.setViewportSize(TABLET);
     await page.locator('[data-testid="bench-next-step"]').scrollIntoViewIfNeeded();
@@ -337,8 +338,8 @@ describe('working standards and trace', () => {
     expect(verified.expiry.expiresOn <= parent.expiry.expiresOn, 'a level never outlives its parent').toBe(true);
     const expiry = await text(ip, 'detail-expiry');
     expect(expiry).toContain(verified.expiry.expiresOn);
-    expect(expiry).toMatch(new RegExp(`limited by (the stability period|parent ${pbStock})`));
-    expect(await text(ip, 'detail-dilution-expected')).toBe(core.display);
+    expect(expiry).toMatch(new RegExp(`limited by (the stability period|parent ${pbStock})`, 'i'));
+    expect(await text(ip, 'detail-dilution-expected')).toBe(verified.dilution.planned.display);
     expect(await text(ip, 'detail-dilution-plan')).toMatch(/Relative standard uncertainty\s*\d+(\.\d+)? %/);
     await screenshot(ip, 'lineage-level-verified-820', false);
 
@@ -359,14 +360,14 @@ describe('working standards and trace', () => {
     expect(pdf.status()).toBe(200);
     const labelText = await pdfText(await pdf.body());
     expect(labelText).toContain(level3);
-    expect(labelText).toContain(core.display); // the default (full) template prints the value ± U with k
+    expect(labelText).toContain(done.dilution.result.display); // the default (full) template prints the value ± U with k
     expect(labelText).not.toMatch(/planned/i);
     // The prep sheet of a dilution: the parent as used, the aliquot, c2 = c1·Vp/Vf and the result (no weighing plan).
     const sheetPdf = await (await page.request.get(`${server.baseUrl}/api/preparations/${level3}/prep-sheet.pdf`)).body();
     mkdirSync(ARTIFACTS, { recursive: true });
     writeFileSync(join(ARTIFACTS, 'lineage-level-prep-sheet.pdf'), sheetPdf); // to look at (pdftoppm)
     const sheetText = await pdfText(sheetPdf);
-    expect(sheetText).toContain(core.display);
+    expect(sheetText).toContain(done.dilution.result.display);
     expect(sheetText).toContain(`Aliquot of the parent ${pbStock}`);
     expect(sheetText).toContain('VERIFIED');
     expect(sheetText).not.toContain('undefined');
