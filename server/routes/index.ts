@@ -17,6 +17,7 @@ import { outboxRouter } from './outbox.routes.ts';
 import { settingsRouter } from './settings.routes.ts';
 import { usersRouter } from './users.routes.ts';
 import { expiryRouter } from './expiry.routes.ts';
+import { volumeChecksRouter } from './volume-checks.routes.ts';
 
 /** Everything under /api. Each route states its role check (requireAuth / requireRole). */
 export function apiRouter(config: Config): Router {
@@ -26,6 +27,7 @@ export function apiRouter(config: Config): Router {
   router.use(usersRouter());
   router.use(settingsRouter());
   router.use(calcRouter());
+  router.use(volumeChecksRouter());
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());

@@ -7,6 +7,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, userIdByEmail, type TestApp } from './helpers/test-app.ts';
 import { validCalcRequest } from './helpers/calc-request.ts';
+import { validVolumeCheckRequest } from './helpers/volume-check-request.ts';
 
 type Who = 'signedOut' | 'chemist' | 'technician' | 'qa' | 'admin';
 const WHO: Who[] = ['signedOut', 'chemist', 'technician', 'qa', 'admin'];
@@ -44,6 +45,7 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/settings', allowed: 'signedIn', ok: 200 },
   { method: 'put', path: '/api/settings', allowed: ['admin'], ok: 200, body: () => ({ readingWindowPct: '5' }) },
   { method: 'post', path: '/api/calc/preparation', allowed: 'signedIn', ok: 200, body: () => validCalcRequest() },
+  { method: 'post', path: '/api/calc/volume-check', allowed: 'signedIn', ok: 200, body: () => validVolumeCheckRequest() },
   { method: 'get', path: '/api/materials', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/balances', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/volumetric-ware', allowed: 'signedIn', ok: 200 },
