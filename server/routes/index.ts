@@ -27,7 +27,7 @@ export function apiRouter(config: Config): Router {
   router.use(usersRouter());
   router.use(settingsRouter());
   router.use(calcRouter());
-  router.use(volumeChecksRouter());
+  router.use(volumeChecksRouter(config));
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());

@@ -445,9 +445,10 @@ const LOCKED = () => new AppError('account_locked', 423, 'This account is locked
 
 /**
  * Checks the signer's password against their stored hash. A failure is counted towards the lockout and
- * audited in its own committed transaction, then 401 signature_password (423 once locked).
+ * audited in its own committed transaction, then 401 signature_password (423 once locked). `entity` names the
+ * signed record's kind in the audit entry (a preparation unless given, e.g. 'volume_check').
  */
-export async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number): Promise<void> {
+export async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number, entity = 'preparation'): Promise<void> {
   if (user.lockedAt) throw LOCKED();
   if (await verifyPassword(password, user.passwordHash)) return;
   let nowLocked = false;
@@ -460,7 +461,7 @@ export async function checkSignerPassword(user: User, password: string, what: st
     await user.save({ transaction });
     const actor = { id: user.id, fullName: user.fullName };
     await recordAudit(
-      { actor, action: 'signature_failed', entity: 'preparation', entityId: preparationId, changes: [{ field: 'failedLoginCount', oldValue: before, newValue: user.failedLoginCount }], reason: `Wrong password when signing ${what}` },
+      { actor, action: 'signature_failed', entity, entityId: preparationId, changes: [{ field: 'failedLoginCount', oldValue: before, newValue: user.failedLoginCount }], reason: `Wrong password when signing ${what}` },
       transaction,
     );
     if (nowLocked) {

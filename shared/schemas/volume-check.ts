@@ -63,3 +63,51 @@ export type VolumeCheckRequestInput = z.infer<typeof volumeCheckRequestSchema>;
 type _Assignable = VolumeCheckRequestInput extends VolumeCheckRequest ? true : never;
 const requestTypeCheck: _Assignable = true;
 void requestTypeCheck;
+
+// ---------------------------------------------------------------- stored checks
+
+const id = (what: string) => z.number({ error: `Choose ${what}` }).int(`Choose ${what}`).positive(`Choose ${what}`);
+
+/** POST /api/volume-checks: a check planned from an inventory item. */
+export const volumeCheckPlanInputSchema = z.object({
+  wareId: id('the ware to check'),
+  balanceId: id('the balance'),
+  /** glass only: replicates chosen by the lab (piston pipettes: 10 per tested volume, ISO 8655-6) */
+  replicates: z.number({ error: 'Replicates is a whole number from 2 to 30' }).int('Replicates is a whole number from 2 to 30').min(2, 'At least 2 replicates').max(30, 'At most 30 replicates').optional(),
+  /** overrides the material read from the inventory text */
+  material: z.enum(['borosilicate_3_3', 'soda_lime', 'polypropylene'], { error: 'Material is borosilicate_3_3, soda_lime or polypropylene' }).optional(),
+  intervalMonths: z.number({ error: 'Interval is a whole number of months from 1 to 60' }).int('Interval is a whole number of months from 1 to 60').min(1, 'At least 1 month').max(60, 'At most 60 months').optional(),
+  conditions: z.object({
+    waterTemperatureC: number('the water temperature in °C'),
+    waterAirSaturated: z.boolean({ error: 'true or false' }).optional(),
+    air: z.object({
+      temperatureC: number('the air temperature in °C'),
+      pressureHPa: positive('The air pressure'),
+      relativeHumidityPct: decimalCheck((d) => !d.isNeg() && d.lte(100), 'Relative humidity must be from 0 to 100 %', FORMAT),
+    }),
+    evaporation: quantity0('The evaporation loss').optional(),
+  }),
+  notes: z.string().trim().max(2000, 'Use at most 2000 characters').optional(),
+});
+export type VolumeCheckPlanInput = z.infer<typeof volumeCheckPlanInputSchema>;
+
+/** POST /api/volume-checks/:key/readings: one net reading as the balance showed it, or a correction of one. */
+export const volumeCheckReadingInputSchema = z.object({
+  testedIndex: z.number({ error: 'Choose the tested volume' }).int().min(0, 'Choose the tested volume'),
+  replicate: z.number({ error: 'Choose the replicate' }).int('Choose the replicate').min(1, 'Replicates count from 1'),
+  value: positive('The reading'),
+  unit: z.enum(['g', 'mg'], { error: 'The reading is in g or mg' }),
+  supersedesId: z.number().int().positive().optional(),
+  correctionReason: z.string().trim().min(3, 'Give the reason for the correction (at least 3 characters)').max(500, 'Use at most 500 characters').optional(),
+});
+export type VolumeCheckReadingInput = z.infer<typeof volumeCheckReadingInputSchema>;
+
+/** POST /api/volume-checks/:key/signatures */
+export const volumeCheckSignatureInputSchema = z.object({
+  meaning: z.enum(['prepared', 'verified', 'returned'], { error: 'Meaning is prepared, verified or returned' }),
+  password: z.string({ error: 'Enter your password' }).min(1, 'Enter your password').max(200),
+  reason: z.string().trim().min(3, 'Give a reason (at least 3 characters)').max(500, 'Use at most 500 characters').optional(),
+  checklist: z.record(z.string(), z.boolean()).optional(),
+  acknowledgeResponsibility: z.boolean().optional(),
+});
+export type VolumeCheckSignatureInput = z.infer<typeof volumeCheckSignatureInputSchema>;

@@ -108,6 +108,12 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'GET /api/series/:key/sheet.pdf': 'series.test.ts',
   'POST /api/preparations/:key/expiry-extensions': 'expiry-extension.test.ts',
   'POST /api/mixes': 'mixes.test.ts',
+  'GET /api/volume-checks': 'volume-checks.test.ts',
+  'POST /api/volume-checks': 'volume-checks.test.ts',
+  'GET /api/volume-checks/:key': 'volume-checks.test.ts',
+  'POST /api/volume-checks/:key/readings': 'volume-checks.test.ts',
+  'POST /api/volume-checks/:key/signatures': 'volume-checks.test.ts',
+  'GET /api/volumetric-ware/:id/calibration': 'volume-checks.test.ts',
 };
 
 function expected(row: Row, who: Who): number {
