@@ -35,7 +35,7 @@ import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
-import { refuseFailedWare } from './volume-check-gate.ts';
+import { failedCheckOf, refuseFailedWare } from './volume-check-gate.ts';
 import { activeAliquot, concentrationOf, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
@@ -359,7 +359,11 @@ async function seriesWare(): Promise<{ pipettes: SeriesWare[]; flasks: SeriesWar
     toleranceMl: w.toleranceMl ?? (w.class === 'A' && w.kind !== 'piston_pipette' ? (classATolerance(w.kind === 'volumetric_flask' ? 'flask' : 'pipette', w.nominalVolumeMl)?.toleranceMl ?? null) : null),
     status: w.status,
   });
-  return { pipettes: rows.filter((w) => w.kind !== 'volumetric_flask').map(toSeries), flasks: rows.filter((w) => w.kind === 'volumetric_flask').map(toSeries) };
+  // ware whose latest verified volume check failed is never proposed (the planning gate would refuse it)
+  const failed = new Set<number>();
+  for (const w of rows) if (await failedCheckOf(w.id)) failed.add(w.id);
+  const usable = rows.filter((w) => !failed.has(w.id));
+  return { pipettes: usable.filter((w) => w.kind !== 'volumetric_flask').map(toSeries), flasks: usable.filter((w) => w.kind === 'volumetric_flask').map(toSeries) };
 }
 
 /** POST /api/series/proposal */

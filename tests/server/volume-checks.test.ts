@@ -5,7 +5,7 @@
 // admin read only (checked below).
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
-import { AuditEntry, Balance, VolumeCheckReading, VolumetricWare } from '../../server/db/models/index.ts';
+import { AuditEntry, Balance, Preparation, Solvent, VolumeCheckReading, VolumetricWare } from '../../server/db/models/index.ts';
 import { VOLUME_CHECK_READINGS_APPEND_ONLY } from '../../server/db/migrations/0020-volume-checks.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 
@@ -46,6 +46,18 @@ const allTicked = { balance_fit: true, conditions: true, readings: true, limits:
 
 describe('volume checks', () => {
   let key = '';
+
+  it('the demo lab holds a passed, verified BP-10-01 check and a failed, verified PP-200-01 check (seeded through the services)', async () => {
+    const bp = await send('qa', 'get', `/api/volumetric-ware/${ware['BP-10-01']}/calibration`);
+    expect(bp.body).toMatchObject({ status: 'calibrated', check: { verdict: 'pass' } });
+    const pp = await send('qa', 'get', `/api/volumetric-ware/${ware['PP-200-01']}/calibration`);
+    expect(pp.body).toMatchObject({ status: 'failed', check: { verdict: 'fail' } });
+    const detail = (await send('qa', 'get', `/api/volume-checks/${pp.body.check.identifier}`)).body;
+    expect(detail.plan.tested.map((x: { value: string }) => x.value)).toEqual(['0.2', '0.1', '0.02']);
+    expect(detail.readings).toHaveLength(30);
+    expect(detail.signatures.map((s: { meaning: string; valid: boolean }) => [s.meaning, s.valid])).toEqual([['prepared', true], ['verified', true]]);
+    expect(detail.result.tested[0].verdict.checks[0]).toMatchObject({ quantity: 'systematic', limit: '0.0016', pass: false });
+  });
 
   it('a technician plans a 10 mL bulb pipette check on BAL-A1: plan, gates and conditions stored, audited', async () => {
     const res = await send('technician', 'post', '/api/volume-checks', plan(ware['BP-10-01']!, bal['BAL-A1']!));
@@ -164,6 +176,26 @@ describe('volume checks', () => {
     });
     expect(prep.status, JSON.stringify(prep.body)).toBe(200);
     expect(prep.body.gates).toEqual(expect.arrayContaining([expect.objectContaining({ code: 'ware_check_failed', severity: 'block', message: expect.stringContaining(k) })]));
+  });
+
+  it('the trace of a standard reaches the flask’s verified check and the balance the check weighed on', async () => {
+    const p = await send('technician', 'post', '/api/volume-checks', plan(ware['VF-100-02']!, bal['BAL-A1']!));
+    expect(p.status, JSON.stringify(p.body)).toBe(201);
+    const k = p.body.identifier;
+    expect((await readAll(k, 'technician', ['99.7021', '99.7035', '99.7012'])).result.verdict).toBe('pass');
+    expect((await send('chemist', 'post', `/api/volume-checks/${k}/signatures`, signBody('prepared'))).status).toBe(201);
+    expect((await send('chemist2', 'post', `/api/volume-checks/${k}/signatures`, signBody('verified', { checklist: allTicked }))).status).toBe(201);
+    // the demo Cu stock was weighed into VF-100-02 and awaits its make-up
+    const cu = (await Preparation.findOne({ where: { analyteFormula: 'Cu' } }))!;
+    const water = (await Solvent.findOne({ where: { name: 'Ultrapure water' } }))!;
+    const mu = await send('chemist2', 'post', `/api/preparations/${cu.identifier}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.5', applyTemperatureCorrection: false });
+    expect(mu.status, JSON.stringify(mu.body)).toBe(201);
+    const tr = await send('chemist', 'get', `/api/trace/${cu.identifier}`);
+    expect(tr.status).toBe(200);
+    const graph = tr.body.backward ?? tr.body.graph ?? tr.body;
+    const nodes = JSON.stringify(graph);
+    expect(nodes).toContain(`${k} volume check (pass)`);
+    expect(nodes).toContain('check weighed on');
   });
 
   it('list and detail are readable by every signed-in role; unknown keys 404', async () => {
