@@ -6,6 +6,7 @@
  * GET  /api/volume-checks/:key                  any signed-in role (id or VC-YYYY-NNNN)
  * POST /api/volume-checks/:key/readings         chemist, technician (append-only; corrections with a reason)
  * POST /api/volume-checks/:key/signatures       chemist (prepared, verified, returned; separation of duties)
+ * GET  /api/volume-checks/:key/certificate.pdf any signed-in role (calibration certificate; audited as a print)
  * GET  /api/volumetric-ware/:id/calibration     any signed-in role (status from the latest verified check)
  */
 import { Router } from 'express';
@@ -15,7 +16,7 @@ import { calculateVolumeCheck } from '../../shared/calc/volume-check.ts';
 import type { Config } from '../config.ts';
 import { AppError } from '../errors/app-error.ts';
 import { requireAuth, requireRole } from '../middleware/session.ts';
-import { getVolumeCheck, listVolumeChecks, planVolumeCheck, recordReading, signVolumeCheck, wareCalibration } from '../services/volume-check.service.ts';
+import { getVolumeCheck, listVolumeChecks, planVolumeCheck, recordReading, signVolumeCheck, volumeCheckCertificatePdf, wareCalibration } from '../services/volume-check.service.ts';
 
 const keyOf = (raw: string | string[] | undefined) => (Array.isArray(raw) ? raw[0] : raw) ?? '';
 const listQuery = z.object({ wareId: z.string().regex(/^[1-9]\d{0,9}$/, 'wareId is a ware id').optional() });
@@ -47,6 +48,14 @@ export function volumeChecksRouter(config: Config): Router {
     const input = volumeCheckSignatureInputSchema.parse(req.body);
     const user = req.user!;
     res.status(201).json(await signVolumeCheck(keyOf(req.params.key), input, { id: user.id, fullName: user.fullName }, { lockoutThreshold: config.lockoutThreshold }));
+  });
+  router.get('/volume-checks/:key/certificate.pdf', requireAuth, async (req, res) => {
+    const user = req.user!;
+    const { pdf, filename } = await volumeCheckCertificatePdf(keyOf(req.params.key), { id: user.id, fullName: user.fullName });
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `inline; filename="${filename.replace(/[^\w.-]/g, '_')}"`);
+    res.setHeader('Cache-Control', 'no-store');
+    res.send(pdf);
   });
   router.get('/volumetric-ware/:id/calibration', requireAuth, async (req, res) => {
     const id = keyOf(req.params.id);

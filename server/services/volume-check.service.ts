@@ -29,6 +29,7 @@ import { Balance, SignatureAcknowledgement, User, VolumeCheck, VolumeCheckReadin
 import type { VolumeCheckPlan } from '../db/models/volume-check.model.ts';
 import { canonicalJson, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
+import { renderVolumeCheckCertificate } from '../pdf/volume-check-certificate.tsx';
 import { recordAudit } from './audit.service.ts';
 import { labDate } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
@@ -572,3 +573,17 @@ export async function wareCalibration(wareId: number, now = new Date(), transact
 }
 
 
+
+/** GET /api/volume-checks/:key/certificate.pdf: the calibration certificate as the record is now; recorded as a print. */
+export async function volumeCheckCertificatePdf(key: string, actor: Actor): Promise<{ pdf: Buffer; filename: string }> {
+  const [check, settings] = await Promise.all([getVolumeCheck(key), getSettings()]);
+  const generatedAt = new Date().toISOString();
+  const pdf = await renderVolumeCheckCertificate({ lab: { name: settings.labName, timeZone: settings.timeZone }, check, generatedAt, generatedBy: actor.fullName });
+  await writeTransaction((transaction) =>
+    recordAudit(
+      { actor, action: 'print', entity: 'volume_check', entityId: check.id, changes: [{ field: 'kind', oldValue: null, newValue: 'calibration_certificate' }, { field: 'identifier', oldValue: null, newValue: `${check.identifier} v${check.version} ${check.status}` }] },
+      transaction,
+    ),
+  );
+  return { pdf, filename: `${check.identifier}-certificate.pdf` };
+}

@@ -113,6 +113,7 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'GET /api/volume-checks/:key': 'volume-checks.test.ts',
   'POST /api/volume-checks/:key/readings': 'volume-checks.test.ts',
   'POST /api/volume-checks/:key/signatures': 'volume-checks.test.ts',
+  'GET /api/volume-checks/:key/certificate.pdf': 'volume-checks.test.ts',
   'GET /api/volumetric-ware/:id/calibration': 'volume-checks.test.ts',
 };
 

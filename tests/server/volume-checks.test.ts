@@ -3,6 +3,8 @@
 // calibration status, and the planning gate that refuses ware whose latest verified check failed.
 // Role matrix of /api/volume-checks routes: chemist and technician plan and record; only a chemist signs; qa and
 // admin read only (checked below).
+import { PDFParse } from 'pdf-parse';
+import { D } from '../../shared/calc/decimal.ts';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry, Balance, Preparation, Solvent, VolumeCheckReading, VolumetricWare } from '../../server/db/models/index.ts';
@@ -198,6 +200,30 @@ describe('volume checks', () => {
     expect(nodes).toContain('check weighed on');
   });
 
+  it('the calibration certificate PDF carries the identifier, the stored numbers and the verdict; printing is audited', async () => {
+    const detail = (await send('qa', 'get', `/api/volume-checks/${key}`)).body;
+    const res = await send('qa', 'get', `/api/volume-checks/${key}/certificate.pdf`).buffer(true).parse((r, cb) => {
+      const chunks: Buffer[] = [];
+      r.on('data', (c: Buffer) => chunks.push(c));
+      r.on('end', () => cb(null, Buffer.concat(chunks)));
+    });
+    expect(res.status).toBe(200);
+    expect(res.headers['content-type']).toMatch(/application\/pdf/);
+    const parser = new PDFParse({ data: new Uint8Array(res.body as Buffer) });
+    let text = '';
+    try {
+      text = (await parser.getText()).pages.map((p) => p.text.replace(/\s+/g, ' ')).join(' ');
+    } finally {
+      await parser.destroy();
+    }
+    expect(text).toContain(`Calibration certificate ${key}`);
+    expect(text).toContain('BP-10-01');
+    expect(text).toContain('PASS');
+    const mean = detail.result.tested[0].mean.value as string;
+    expect(text).toContain(new D(mean).toFixed(5)); // shortened to 5 decimals (half-even) for display
+    expect(await AuditEntry.count({ where: { entity: 'volume_check', action: 'print' } })).toBe(1);
+  });
+
   it('list and detail are readable by every signed-in role; unknown keys 404', async () => {
     const list = await send('admin', 'get', `/api/volume-checks?wareId=${ware['BP-10-01']}`);
     expect(list.status).toBe(200);
@@ -214,6 +240,7 @@ describe('volume checks', () => {
     ['POST /api/volume-checks/:key/signatures', 'post', '/api/volume-checks/VC-2026-0001/signatures', 'technician', 403],
     ['POST /api/volume-checks/:key/signatures', 'post', '/api/volume-checks/VC-2026-0001/signatures', 'qa', 403],
     ['GET /api/volume-checks/:key', 'get', '/api/volume-checks/VC-2026-0001', 'signedOut', 401],
+    ['GET /api/volume-checks/:key/certificate.pdf', 'get', '/api/volume-checks/VC-2026-0001/certificate.pdf', 'signedOut', 401],
     ['GET /api/volumetric-ware/:id/calibration', 'get', '/api/volumetric-ware/1/calibration', 'signedOut', 401],
   ];
   it.each(matrix)('%s as %s → %s', async (_n, method, path, who, status) => {
