@@ -6,6 +6,7 @@ import type { Sequelize } from 'sequelize';
 import { Balance, initModels, modelsBoundTo, ReferenceMaterial, Solvent, User, VolumetricWare } from '../server/db/models/index.ts';
 import { hashPassword } from '../server/services/passwords.ts';
 import { seedDemoPreparations } from './demo-preparations.ts';
+import { seedDemoVolumeChecks } from './demo-volume-checks.ts';
 import { DEMO_PASSWORD, demoBalances, demoMaterials, demoSolvents, demoUsers, demoVolumetricWare } from './demo-data.ts';
 import { shiftDemoRecord } from './demo-clock.ts';
 
@@ -42,6 +43,7 @@ export async function seedDemoLab(
     await Solvent.bulkCreate(shifted(demoSolvents), { transaction });
   });
   await seedDemoPreparations(now);
+  await seedDemoVolumeChecks(now);
   return {
     seeded: true,
     counts: {

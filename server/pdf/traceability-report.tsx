@@ -56,6 +56,7 @@ const LINK_WORD: Record<string, string> = {
   solvent_lot: 'solvent lot',
   user: 'person',
   label_print: 'labels',
+  volume_check: 'volume check',
 };
 
 function T({ children, style }: { children: string; style?: object | object[] }) {

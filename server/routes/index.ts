@@ -19,6 +19,7 @@ import { usersRouter } from './users.routes.ts';
 import { sessionsRouter } from './sessions.routes.ts';
 import { expiryRouter } from './expiry.routes.ts';
 import { worklistsRouter } from './worklists.routes.ts';
+import { volumeChecksRouter } from './volume-checks.routes.ts';
 
 /** Everything under /api. Each route states its role check (requireAuth / requireRole). */
 export function apiRouter(config: Config): Router {
@@ -29,6 +30,7 @@ export function apiRouter(config: Config): Router {
   router.use(sessionsRouter());
   router.use(settingsRouter());
   router.use(calcRouter());
+  router.use(volumeChecksRouter(config));
   router.use(inventoryRouter());
   router.use(certificatesRouter(config));
   router.use(preparationsRouter());

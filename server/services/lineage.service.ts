@@ -35,6 +35,7 @@ import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
+import { failedCheckOf, refuseFailedWare } from './volume-check-gate.ts';
 import { activeAliquot, concentrationOf, dilutionBeta, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
@@ -82,6 +83,7 @@ export async function pipetteFor(id: number, field: string): Promise<WareDto> {
   const p = wareSnapshot(w);
   if (p.kind !== 'bulb_pipette' && p.kind !== 'piston_pipette') throw AppError.validation(`${p.identifier} is not a pipette`, { [field]: `${p.identifier} is a ${p.kind.replace(/_/g, ' ')}; choose a bulb or piston pipette` });
   if (p.status !== 'in_service') throw AppError.validation(`${p.identifier} is ${p.status.replace(/_/g, ' ')}`, { [field]: `${p.identifier} is ${p.status.replace(/_/g, ' ')}; choose an in-service pipette` });
+  await refuseFailedWare(p, field);
   if (!pipetteUncertainty(p)) throw AppError.validation(`${p.identifier} has no tolerance recorded`, { [field]: `${p.identifier} has no tolerance recorded, so its volume uncertainty is unknown; record it in the inventory` });
   return p;
 }
@@ -92,6 +94,7 @@ export async function flaskFor(id: number, field: string): Promise<WareDto> {
   const f = wareSnapshot(w);
   if (f.kind !== 'volumetric_flask') throw AppError.validation(`${f.identifier} is not a volumetric flask`, { [field]: `${f.identifier} is a ${f.kind.replace(/_/g, ' ')}; choose a volumetric flask` });
   if (f.status !== 'in_service') throw AppError.validation(`${f.identifier} is ${f.status.replace(/_/g, ' ')}`, { [field]: `${f.identifier} is ${f.status.replace(/_/g, ' ')}; choose an in-service flask` });
+  await refuseFailedWare(f, field);
   if (!flaskUncertainty(f)) throw AppError.validation(`${f.identifier} has no tolerance recorded`, { [field]: `${f.identifier} has no tolerance recorded, so its volume uncertainty is unknown; record it in the inventory` });
   return f;
 }
@@ -356,7 +359,11 @@ async function seriesWare(): Promise<{ pipettes: SeriesWare[]; flasks: SeriesWar
     toleranceMl: w.toleranceMl ?? (w.class === 'A' && w.kind !== 'piston_pipette' ? (classATolerance(w.kind === 'volumetric_flask' ? 'flask' : 'pipette', w.nominalVolumeMl)?.toleranceMl ?? null) : null),
     status: w.status,
   });
-  return { pipettes: rows.filter((w) => w.kind !== 'volumetric_flask').map(toSeries), flasks: rows.filter((w) => w.kind === 'volumetric_flask').map(toSeries) };
+  // ware whose latest verified volume check failed is never proposed (the planning gate would refuse it)
+  const failed = new Set<number>();
+  for (const w of rows) if (await failedCheckOf(w.id)) failed.add(w.id);
+  const usable = rows.filter((w) => !failed.has(w.id));
+  return { pipettes: usable.filter((w) => w.kind !== 'volumetric_flask').map(toSeries), flasks: usable.filter((w) => w.kind === 'volumetric_flask').map(toSeries) };
 }
 
 /**

@@ -8,7 +8,8 @@
 import { Op, QueryTypes, literal, type WhereOptions } from 'sequelize';
 import { CalcError, convertVolume, D } from '../../shared/calc/index.ts';
 import { checkReadingDigits, checkReadingRange, computeExpiry, dayNumber, evaluateGates, formatPreparationId, isInWindow, netFromDifference, parsePreparationId, type GateBalance } from '../../shared/prep/index.ts';
-import { evaluateFlaskGates, evaluateMaterialDensityGate, type PlanFlask } from '../../shared/prep/plan-gates.ts';
+import { evaluateFlaskGates, evaluateMaterialDensityGate, evaluateWareCheckGate, type PlanFlask } from '../../shared/prep/plan-gates.ts';
+import { failedCheckOf } from './volume-check-gate.ts';
 import type { Balance as BalanceDto, ReferenceMaterial as MaterialDto, VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type {
   ConditionsInput,
@@ -197,6 +198,7 @@ async function evaluatePlan(input: PlanInput, now: Date): Promise<Evaluated> {
     flaskOptions,
   });
   const gates: Gate[] = [...coreGates, ...evaluateFlaskGates({ ...(ctx.flask ? { flask: planFlask(ctx.flask) } : {}), volumeMl: ctx.volumeMl, flasks: ctx.flasks.map(planFlask) })];
+  if (ctx.flask) gates.push(...(evaluateWareCheckGate(ctx.flask, await failedCheckOf(ctx.flask.id)) as Gate[]));
   return { ctx, numbers, gates };
 }
 

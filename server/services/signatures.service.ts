@@ -560,9 +560,10 @@ const LOCKED = () => new AppError('account_locked', 423, 'This account is locked
 
 /**
  * Checks the signer's password against their stored hash. A failure is counted towards the lockout and
- * audited in its own committed transaction, then 401 signature_password (423 once locked).
+ * audited in its own committed transaction, then 401 signature_password (423 once locked). `entity` names the
+ * signed record's kind in the audit entry (a preparation unless given, e.g. 'volume_check').
  */
-export async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number): Promise<void> {
+export async function checkSignerPassword(user: User, password: string, what: string, preparationId: number, lockoutThreshold: number, entity = 'preparation'): Promise<void> {
   if (user.lockedAt) throw LOCKED();
   // A password an administrator set is known to someone else: it signs nothing (21 CFR 11.300).
   if (user.mustChangePassword) throw new AppError(PASSWORD_CHANGE_REQUIRED, 403, 'Choose your own password before signing: the current one was set by an administrator');
@@ -577,7 +578,7 @@ export async function checkSignerPassword(user: User, password: string, what: st
     await user.save({ transaction });
     const actor = { id: user.id, fullName: user.fullName };
     await recordAudit(
-      { actor, action: 'signature_failed', entity: 'preparation', entityId: preparationId, changes: [{ field: 'failedLoginCount', oldValue: before, newValue: user.failedLoginCount }], reason: `Wrong password when signing ${what}` },
+      { actor, action: 'signature_failed', entity, entityId: preparationId, changes: [{ field: 'failedLoginCount', oldValue: before, newValue: user.failedLoginCount }], reason: `Wrong password when signing ${what}` },
       transaction,
     );
     if (nowLocked) {

@@ -14,6 +14,7 @@
  * - Dilutions: parents are read from `preparation_parents` when that table exists (checked in sqlite_master);
  *   without it every preparation is a stock standard made from its material lot.
  */
+import { traceVolumeCheck } from './volume-check-trace.ts';
 import { Op, QueryTypes } from 'sequelize';
 import { addDays, parsePreparationId } from '../../shared/prep/index.ts';
 import type { Balance as BalanceDto, VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
@@ -424,6 +425,7 @@ async function backwardOf(root: Preparation, timeZone: string): Promise<Backward
         detail: { identifier: f.identifier, nominalVolumeMl: f.nominalVolumeMl, class: f.class, toleranceMl: f.toleranceMl, statusNow: currentFlask ? wareStatus({ status: currentFlask.status, class: currentFlask.wareClass }) : 'unknown' },
       });
       g.edge({ from: fid, to: pid, relation: `made up in${older}`, at: mu.recordedAt, statusAtUse: wareStatus(f) });
+      await traceVolumeCheck(g, fid, mu.flaskId, mu.recordedAt);
       rows.push({
         level,
         link: 'volumetric_ware',
@@ -522,6 +524,7 @@ async function backwardOf(root: Preparation, timeZone: string): Promise<Backward
           detail: { identifier, statusNow: pip ? wareStatus({ status: pip.status, class: pip.wareClass }) : 'unknown' },
         });
         g.edge({ from: wid, to: pid, relation: 'aliquot pipette', at: p.createdAt, statusAtUse });
+        await traceVolumeCheck(g, wid, link.aliquotWareId, p.createdAt);
         rows.push({
           level,
           link: 'volumetric_ware',

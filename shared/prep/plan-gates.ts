@@ -7,7 +7,7 @@
 import { toDec } from '../calc/decimal.ts';
 import { GATE_SEVERITY, type Gate, type GateCode, type GateSeverity } from './gates.ts';
 
-export const PLAN_GATE_CODES = ['flask_not_in_service', 'flask_not_volumetric', 'flask_not_class_a', 'no_flask_for_volume', 'material_density_unknown'] as const;
+export const PLAN_GATE_CODES = ['flask_not_in_service', 'flask_not_volumetric', 'flask_not_class_a', 'no_flask_for_volume', 'material_density_unknown', 'ware_check_failed'] as const;
 export type PlanOnlyGateCode = (typeof PLAN_GATE_CODES)[number];
 export type PlanGateCode = GateCode | PlanOnlyGateCode;
 
@@ -22,6 +22,7 @@ export const PLAN_GATE_SEVERITY: Readonly<Record<PlanGateCode, GateSeverity>> = 
   flask_not_class_a: 'warn',
   no_flask_for_volume: 'warn',
   material_density_unknown: 'block',
+  ware_check_failed: 'block',
 };
 
 export interface PlanFlask {
@@ -77,6 +78,18 @@ export function evaluateMaterialDensityGate(material: { name: string; densityGPe
       'material_density_unknown',
       `${material.name} has no density recorded, so the air-buoyancy correction cannot be calculated`,
       `Enter the density of ${material.name} in the inventory (a handbook value to ±5 % is enough)`,
+    ),
+  ];
+}
+
+/** Ware whose latest verified gravimetric check failed (server/services/volume-check-gate.ts) is refused; the gate names the check. */
+export function evaluateWareCheckGate(ware: { identifier: string }, failedCheck: { identifier: string } | null): PlanGate[] {
+  if (!failedCheck) return [];
+  return [
+    gate(
+      'ware_check_failed',
+      `${ware.identifier} failed its volume check ${failedCheck.identifier}`,
+      `Do not use ${ware.identifier} until a new check passes; choose other ware`,
     ),
   ];
 }

@@ -22,7 +22,7 @@ import { isIsoDate } from '../prep/dates.ts';
 export const TRACE_SUBJECT_TYPES = ['preparation', 'material_lot', 'balance', 'volumetric_ware', 'solvent_lot'] as const;
 export type TraceSubjectType = (typeof TRACE_SUBJECT_TYPES)[number];
 
-export const TRACE_NODE_TYPES = [...TRACE_SUBJECT_TYPES, 'certificate', 'user', 'label_print'] as const;
+export const TRACE_NODE_TYPES = [...TRACE_SUBJECT_TYPES, 'certificate', 'user', 'label_print', 'volume_check'] as const;
 export type TraceNodeType = (typeof TRACE_NODE_TYPES)[number];
 
 export interface TraceNode {

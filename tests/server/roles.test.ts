@@ -10,6 +10,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, userIdByEmail, type TestApp } from './helpers/test-app.ts';
 import { validCalcRequest } from './helpers/calc-request.ts';
 import { fillPath, registeredRouteList, registeredRoutes } from './helpers/routes.ts';
+import { validVolumeCheckRequest } from './helpers/volume-check-request.ts';
 
 type Who = 'signedOut' | 'chemist' | 'technician' | 'qa' | 'admin';
 const WHO: Who[] = ['signedOut', 'chemist', 'technician', 'qa', 'admin'];
@@ -50,6 +51,7 @@ const ROWS: Row[] = [
   { method: 'get', path: '/api/settings', allowed: 'signedIn', ok: 200 },
   { method: 'put', path: '/api/settings', allowed: ['admin'], ok: 200, body: () => ({ readingWindowPct: '5' }) },
   { method: 'post', path: '/api/calc/preparation', allowed: 'signedIn', ok: 200, body: () => validCalcRequest() },
+  { method: 'post', path: '/api/calc/volume-check', allowed: 'signedIn', ok: 200, body: () => validVolumeCheckRequest() },
   { method: 'get', path: '/api/materials', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/balances', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/volumetric-ware', allowed: 'signedIn', ok: 200 },
@@ -119,6 +121,13 @@ const COVERED_ELSEWHERE: Record<string, string> = {
   'POST /api/auth/logout-everywhere': 'sessions.test.ts',
   'POST /api/auth/password': 'sessions.test.ts',
   'POST /api/sessions/:id/end': 'sessions.test.ts',
+  'GET /api/volume-checks': 'volume-checks.test.ts',
+  'POST /api/volume-checks': 'volume-checks.test.ts',
+  'GET /api/volume-checks/:key': 'volume-checks.test.ts',
+  'POST /api/volume-checks/:key/readings': 'volume-checks.test.ts',
+  'POST /api/volume-checks/:key/signatures': 'volume-checks.test.ts',
+  'GET /api/volume-checks/:key/certificate.pdf': 'volume-checks.test.ts',
+  'GET /api/volumetric-ware/:id/calibration': 'volume-checks.test.ts',
 };
 
 type Allowed = Row['allowed'];
@@ -169,6 +178,13 @@ const ACCESS_ELSEWHERE: Record<string, Allowed> = {
   'POST /api/auth/logout-everywhere': 'signedIn',
   'POST /api/auth/password': 'signedIn',
   'POST /api/sessions/:id/end': ['admin'],
+  'GET /api/volume-checks': 'signedIn',
+  'POST /api/volume-checks': ['chemist', 'technician'],
+  'GET /api/volume-checks/:key': 'signedIn',
+  'POST /api/volume-checks/:key/readings': ['chemist', 'technician'],
+  'POST /api/volume-checks/:key/signatures': ['chemist'],
+  'GET /api/volume-checks/:key/certificate.pdf': 'signedIn',
+  'GET /api/volumetric-ware/:id/calibration': 'signedIn',
 };
 
 /** The rule of every route: its row, else its ACCESS_ELSEWHERE entry. */

@@ -17,6 +17,7 @@ import { initMail } from './mail.model.ts';
 import { initLineage } from './lineage.model.ts';
 import { initGravimetric } from './gravimetric.model.ts';
 import { initExpiryExtensions } from './expiry-extension.ts';
+import { initVolumeChecks } from './volume-check.model.ts';
 
 export { User } from './user.model.ts';
 export { AuditEntry } from './audit-entry.model.ts';
@@ -32,6 +33,7 @@ export { MailQueueItem, FakeMail, type MailStatus } from './mail.model.ts';
 export { PreparationParent, DilutionAliquot, Series } from './lineage.model.ts';
 export { GravimetricReading } from './gravimetric.model.ts';
 export { ExpiryExtension, expiryAsSigned } from './expiry-extension.ts';
+export { VolumeCheck, VolumeCheckReading, VolumeCheckSignature } from './volume-check.model.ts';
 
 const bound = new WeakSet<Sequelize>();
 
@@ -48,6 +50,7 @@ export function initModels(sequelize: Sequelize) {
   initLineage(sequelize);
   initGravimetric(sequelize);
   initExpiryExtensions(sequelize);
+  initVolumeChecks(sequelize);
   bound.add(sequelize);
   return models;
 }

@@ -24,6 +24,7 @@ const LOOKS: Record<string, Look> = {
   solvent_lot: { label: 'Solvent lot', className: 'border-line bg-paper' },
   user: { label: 'Person', className: 'border-line bg-card' },
   label_print: { label: 'Label print', className: 'border-line bg-card' },
+  volume_check: { label: 'Volume check', className: 'border-line bg-paper' },
 };
 
 export function nodeLook(n: Pick<TraceNode, 'type' | 'detail'>): Look {
