@@ -1,10 +1,13 @@
 /**
  * Fonts for every PDF, registered once from files shipped in node_modules (no network at run time).
- * Inter .woff (Latin subset: has ± ° µ ³) for text; DejaVu Sans .ttf for subscripts, Greek letters and other
- * symbols the Latin subset lacks. Never .woff2: react-pdf embeds it but draws nothing (STACK P7).
+ * Inter .woff (Latin subset: has ± ° µ ³) for text, unpacked once to sfnt in memory (woff.ts says why); DejaVu
+ * Sans .ttf for subscripts, Greek letters and other symbols the Latin subset lacks. Never .woff2: react-pdf embeds
+ * it but draws nothing (STACK P7).
  */
+import { readFileSync } from 'node:fs';
 import { createRequire } from 'node:module';
 import { Font } from '@react-pdf/renderer';
+import { woffToSfnt } from './woff.ts';
 
 const require = createRequire(import.meta.url);
 
@@ -14,13 +17,18 @@ const WEIGHTS = [400, 700] as const;
 
 let registered = false;
 
+/** A shipped WOFF font as a data URL of its sfnt (react-pdf loads data URLs with fontkit.create). */
+function unpackedWoff(file: string): string {
+  return `data:font/ttf;base64,${woffToSfnt(readFileSync(require.resolve(file))).toString('base64')}`;
+}
+
 export function registerFonts(): void {
   if (registered) return;
   Font.register({
     family: TEXT_FONT,
     fonts: [
-      { src: require.resolve('@fontsource/inter/files/inter-latin-400-normal.woff'), fontWeight: 400 },
-      { src: require.resolve('@fontsource/inter/files/inter-latin-700-normal.woff'), fontWeight: 700 },
+      { src: unpackedWoff('@fontsource/inter/files/inter-latin-400-normal.woff'), fontWeight: 400 },
+      { src: unpackedWoff('@fontsource/inter/files/inter-latin-700-normal.woff'), fontWeight: 700 },
     ],
   });
   Font.register({
