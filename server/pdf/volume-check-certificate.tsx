@@ -8,6 +8,7 @@
 import { createElement } from 'react';
 import { Document, Page, StyleSheet, Text, View } from '@react-pdf/renderer';
 import type { VolumeCheckDetail } from '../services/volume-check.service.ts';
+import { limitSourceText } from '../../shared/calc/volume-tolerances.ts';
 import { renderDocument } from './document.ts';
 import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay, shortDecimal } from './format.ts';
@@ -72,7 +73,7 @@ export function VolumeCheckCertificate({ data }: { data: VolumeCheckCertificateD
             <KV k="Expanded uncertainty" v={`U = ${shortDecimal(t.uncertainty.expandedUncertainty, 5)} ${t.uncertainty.unit} (k = ${t.uncertainty.k})`} />
             <KV k="Limit" v={`± ${t.verdict.limit.systematic.value} ${t.verdict.limit.systematic.unit}${t.verdict.limit.random ? `; s ≤ ${t.verdict.limit.random.value} ${t.verdict.limit.random.unit}` : ''}`} />
             <KV k="Verdict" v={t.verdict.result === 'pass' ? 'PASS' : 'FAIL'} bold />
-            <T style={s.small}>{`Limit source: ${t.verdict.limit.source}${t.verdict.limit.fromMemory ? ' (from memory; check against the standard)' : ''}`}</T>
+            <T style={s.small}>{`Limit source: ${limitSourceText(t.verdict.limit.source, t.verdict.limit.fromMemory)}`}</T>
           </View>
         ))}
         <T style={s.h2}>Result</T>

@@ -120,3 +120,20 @@ export const EXPANSION_COEFFICIENTS: Readonly<Record<CheckWareMaterial, Expansio
   soda_lime: { value: '27e-6', halfWidth: '3e-6', source: 'soda-lime glass, 27 × 10⁻⁶ K⁻¹ (same source; METROLOGY §4.3)' },
   polypropylene: { value: '4.5e-4', halfWidth: '1.5e-4', source: 'polypropylene, 3–4.5 × 10⁻⁴ K⁻¹ from memory (METROLOGY §4.3); use the maker’s value where known' },
 });
+
+/** A source text as printed or shown: without the internal document references stored beside it (METROLOGY.md §…). */
+export function withoutInternalRefs(text: string): string {
+  return text
+    .replace(/\s*(?:as recalled|as) in METROLOGY(?:\.md)?\s*§[\d.–-]+/g, '')
+    .replace(/\s*\(not in METROLOGY(?:\.md)?\)/g, '')
+    .replace(/[;,]?\s*METROLOGY(?:\.md)?\s*§[\d.–-]+/g, '')
+    .replace(/\(\s*\)/g, '')
+    .replace(/\s{2,}/g, ' ')
+    .trim();
+}
+
+/** A limit's source as printed or shown; "from memory" is said once. */
+export function limitSourceText(source: string, fromMemory: boolean): string {
+  const clean = withoutInternalRefs(source);
+  return fromMemory && !/from memory/i.test(clean) ? `${clean} (from memory; check against the standard)` : clean;
+}

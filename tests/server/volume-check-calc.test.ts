@@ -62,3 +62,13 @@ describe('POST /api/calc/volume-check', () => {
     expect(res.body.error.fields?.[field], JSON.stringify(res.body)).toBeTruthy();
   });
 });
+
+describe('limit sources as printed', () => {
+  it('when a stored source names an internal document, then the printed text leaves it out and says "from memory" once', async () => {
+    const { limitSourceText, withoutInternalRefs } = await import('../../shared/calc/volume-tolerances.ts');
+    expect(withoutInternalRefs('ISO 648 class A table as recalled in METROLOGY.md §4.4 (from memory); class B = 2 × class A (from memory)')).toBe('ISO 648 class A table (from memory); class B = 2 × class A (from memory)');
+    const printed = limitSourceText('ISO 8655-2:2002 Table 1: rows 10, 20 µL as in METROLOGY.md §4.5, the other rows from memory', true);
+    expect(printed).not.toMatch(/METROLOGY/);
+    expect(printed.match(/from memory/g)).toHaveLength(1);
+  });
+});
