@@ -33,6 +33,8 @@ function sources() {
 /** True when build/ is missing, a source (or this script, or package.json) changed since, or a source was added or removed. */
 export function needsServerBuild() {
   if (!existsSync(STAMP)) return true;
+  // a production image ships build/ without the TypeScript sources: nothing to compare, nothing to rebuild
+  if (!SOURCE_DIRS.some((d) => existsSync(join(ROOT, d)))) return false;
   const built = statSync(STAMP).mtimeMs;
   const files = sources();
   let stamped = -1;

@@ -1,6 +1,6 @@
 /**
  * createApp builds the Express app without listening (tests use it with supertest).
- * Order (STACK §6): helmet, no-store + same-origin check, JSON body, input text rule, session, /api routers, JSON 404 for /api/*, client (static dist/
+ * Order (STACK §6): helmet, request log (server/logger.ts), no-store + same-origin check, JSON body, input text rule, session, /api routers, JSON 404 for /api/*, client (static dist/
  * with SPA fallback, or a dev middleware such as Vite), then the error handler.
  */
 import { existsSync } from 'node:fs';
@@ -16,6 +16,7 @@ import { apiNotFound, errorMiddleware } from './errors/error-middleware.ts';
 import { sessionMiddleware } from './middleware/session.ts';
 import { inputGuard, noStore, sameOrigin } from './middleware/request-guards.ts';
 import { apiRouter } from './routes/index.ts';
+import { httpLogger } from './logger.ts';
 import type { Mailer } from './mail/mailer.ts';
 
 // <repo>/dist, from server/app.ts (tsx, vitest) or from build/server/app.js (compiled by scripts/build-server.mjs)
@@ -50,6 +51,7 @@ export function createApp({ sequelize: given, db, config, clientMiddleware, dist
   app.use(helmet(config.viteMiddleware ? { contentSecurityPolicy: false } : {}));
 
   const api = express.Router();
+  api.use(httpLogger());
   api.use(noStore);
   api.use(sameOrigin(config));
   // strict: false lets a bare 42 or "text" through to zod, which answers "send a JSON object".

@@ -15,9 +15,10 @@ import { migrateUp } from './db/migrate.ts';
 import { configureAuditChain, ensureKeyedChain, writeAnchor } from './services/audit.service.ts';
 import { initModels, User } from './db/models/index.ts';
 import { openDatabase } from './db/sequelize.ts';
-import { startFakeSmtpServer, type FakeSmtpServer } from './mail/fake-smtp.ts';
+import type { FakeSmtpServer } from './mail/fake-smtp.ts';
 import { createMailer, smtpTransport, type Mailer } from './mail/mailer.ts';
 import { startScheduler } from './jobs/scheduler.ts';
+import { logger } from './logger.ts';
 
 /**
  * Builds the client in a child process: Vite's in-process build() sets NODE_ENV=production for the
@@ -36,32 +37,37 @@ async function main(): Promise<void> {
     config = loadConfig();
   } catch (err) {
     if (err instanceof ConfigError) {
-      console.error(`Tarebook cannot start: ${err.message}`);
+      logger.fatal(`Tarebook cannot start: ${err.message}`);
       process.exit(1);
     }
     throw err;
   }
 
   if (!config.viteMiddleware && !existsSync(join(DIST_DIR, 'index.html'))) {
-    console.log('Building the client (dist/ is missing)…');
+    if (config.production) {
+      // a production install has no dev dependencies (vite): the client is built beforehand
+      logger.fatal(`Tarebook cannot start: the built client is missing (${DIST_DIR}). Run \`npm run build\` where the dev dependencies are installed (the Dockerfile's build stage does) and ship dist/ and build/ with the app.`);
+      process.exit(1);
+    }
+    logger.info('Building the client (dist/ is missing)…');
     buildClient();
   }
 
   const sequelize = await openDatabase(config.dbPath);
   const applied = await migrateUp(sequelize);
-  if (applied.length) console.log(`Applied migrations: ${applied.map((m) => m.name).join(', ')}`);
+  if (applied.length) logger.info({ migrations: applied.map((m) => m.name) }, `Applied migrations: ${applied.map((m) => m.name).join(', ')}`);
   initModels(sequelize);
   configureAuditChain(sequelize, { key: config.auditChainKey, anchorFile: config.auditAnchorFile });
 
   if (!config.production && (await User.count()) === 0) {
     const { seedDemoLab } = await import('../seed/seed-demo-lab.ts');
     const result = await seedDemoLab(sequelize);
-    if (result.seeded) console.log('Seeded the demo lab (Harbourside Water Laboratory); password for all demo accounts: bench-demo-2026');
+    if (result.seeded) logger.info('Seeded the demo lab (Harbourside Water Laboratory); password for all demo accounts: bench-demo-2026');
   }
 
   await ensureKeyedChain(); // a database with unkeyed entries gets its switch entry now
   const anchor = await writeAnchor(); // the chain head, outside the database, at every start (and daily)
-  if (anchor) console.log(`Audit chain head #${anchor.id} anchored in ${config.auditAnchorFile}`);
+  if (anchor) logger.info(`Audit chain head #${anchor.id} anchored in ${config.auditAnchorFile}`);
 
   const httpServer: Server = createServer();
   let vite: { middlewares: RequestHandler; close(): Promise<void> } | undefined;
@@ -77,8 +83,10 @@ async function main(): Promise<void> {
   let fakeSmtp: FakeSmtpServer | undefined;
   let mailer: Mailer | undefined;
   if (config.mail.mode === 'fake') {
+    // loaded only here: smtp-server and mailparser are dev dependencies, absent from a production install
+    const { startFakeSmtpServer } = await import('./mail/fake-smtp.ts');
     fakeSmtp = await startFakeSmtpServer();
-    console.log(`Fake SMTP server on ${fakeSmtp.host}:${fakeSmtp.port} (messages in the admin Outbox)`);
+    logger.info(`Fake SMTP server on ${fakeSmtp.host}:${fakeSmtp.port} (messages in the admin Outbox)`);
   }
   if (config.mail.mode !== 'off') mailer = createMailer({ transport: smtpTransport(config, fakeSmtp), from: config.mail.from });
 
@@ -90,7 +98,7 @@ async function main(): Promise<void> {
     httpServer.listen(config.port, config.host, () => resolve());
   });
   const { port } = httpServer.address() as AddressInfo;
-  console.log(`Tarebook listening on http://localhost:${port}`);
+  logger.info({ port }, `Tarebook listening on http://localhost:${port}`);
   app.locals.publicUrl = config.publicUrl ?? `http://localhost:${port}`;
   mailer?.kick(); // deliver what was queued before a restart (and the demo seed's messages)
   const scheduler = await startScheduler({ publicUrl: () => app.locals.publicUrl as string, mailer }); // daily expiry digest, 06:00 lab time
@@ -99,7 +107,8 @@ async function main(): Promise<void> {
   const shutdown = async (signal: string) => {
     if (closing) return;
     closing = true;
-    console.log(`${signal} received, shutting down…`);
+    app.locals.shuttingDown = true; // /api/health/ready answers 503 while connections drain
+    logger.info(`${signal} received, shutting down…`);
     const force = setTimeout(() => process.exit(1), 10_000);
     force.unref();
     httpServer.closeIdleConnections?.();
@@ -116,6 +125,6 @@ async function main(): Promise<void> {
 }
 
 main().catch((err) => {
-  console.error('Tarebook failed to start:', err);
+  logger.fatal({ err }, 'Tarebook failed to start');
   process.exit(1);
 });

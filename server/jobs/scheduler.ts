@@ -8,6 +8,7 @@ import type { Mailer } from '../mail/mailer.ts';
 import { runExpiryDigest } from '../services/expiry-digest.service.ts';
 import { getSettings } from '../services/settings.service.ts';
 import { runDailyIntegrity } from '../services/integrity-report.service.ts';
+import { logger } from '../logger.ts';
 
 /** Minute, hour, day of month, month, day of week: every day at 06:00. */
 export const EXPIRY_DIGEST_CRON = '0 6 * * *';
@@ -26,7 +27,7 @@ export interface Scheduler {
 }
 
 export async function startScheduler(opts: SchedulerOptions): Promise<Scheduler> {
-  const log = opts.log ?? ((m: string) => console.log(m));
+  const log = opts.log ?? ((m: string) => logger.info({ job: 'scheduler' }, m));
   const { timeZone } = await getSettings();
   const tasks: ScheduledTask[] = [
     cron.schedule(

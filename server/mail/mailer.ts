@@ -10,6 +10,7 @@ import type { Config } from '../config.ts';
 import { MailQueueItem } from '../db/models/index.ts';
 import { writeTransaction } from '../db/transaction.ts';
 import type { MailContent } from './templates.ts';
+import { logger } from '../logger.ts';
 
 export interface OutgoingMail {
   from: string;
@@ -82,7 +83,7 @@ export class Mailer {
     this.from = opts.from;
     this.retryBaseMs = opts.retryBaseMs ?? 30_000;
     this.maxAttempts = opts.maxAttempts ?? 6;
-    this.log = opts.log ?? ((m) => console.warn(m));
+    this.log = opts.log ?? ((m) => logger.warn({ component: 'mail' }, m));
   }
 
   /** Start delivering what is due (returns at once; errors are logged, never thrown). */

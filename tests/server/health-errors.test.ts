@@ -1,5 +1,5 @@
 // API basics: health, the error body for unknown routes and bad bodies, no 500 from client input.
-import { mkdirSync, writeFileSync } from 'node:fs';
+import { mkdirSync, readdirSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
@@ -17,10 +17,34 @@ beforeAll(async () => {
 afterAll(() => t.close());
 
 describe('GET /api/health', () => {
-  it('when called signed out, then it returns 200 { status: "ok" }', async () => {
+  it('when called signed out, then it returns 200 with the database answering and the latest migration applied', async () => {
     const res = await request(t.app).get('/api/health');
     expect(res.status).toBe(200);
-    expect(res.body).toEqual({ status: 'ok' });
+    const latest = readdirSync(join(import.meta.dirname, '../../server/db/migrations')).filter((f) => /^\d{4}-.*\.ts$/.test(f)).sort().at(-1);
+    expect(res.body).toEqual({ status: 'ok', database: 'ok', migration: latest, pending: 0 });
+  });
+
+  it('then /api/health/ready is 200 for a load balancer, and 503 with the reason while the server shuts down', async () => {
+    const ready = await request(t.app).get('/api/health/ready');
+    expect(ready.status).toBe(200);
+    expect(ready.body).toEqual({ ready: true });
+    t.app.locals.shuttingDown = true;
+    try {
+      const draining = await request(t.app).get('/api/health/ready');
+      expect(draining.status).toBe(503);
+      expect(draining.body).toEqual({ ready: false, reason: 'shutting down' });
+    } finally {
+      t.app.locals.shuttingDown = false;
+    }
+  });
+
+  it('then every API answer carries a request id, and a plain one from the load balancer is kept', async () => {
+    const fresh = await request(t.app).get('/api/health');
+    expect(fresh.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
+    const kept = await request(t.app).get('/api/health').set('X-Request-Id', 'lb-7f3a.42');
+    expect(kept.headers['x-request-id']).toBe('lb-7f3a.42');
+    const odd = await request(t.app).get('/api/health').set('X-Request-Id', 'a b<script>');
+    expect(odd.headers['x-request-id']).toMatch(/^[0-9a-f-]{36}$/);
   });
 
   it('then helmet security headers are present', async () => {
