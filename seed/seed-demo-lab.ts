@@ -7,6 +7,7 @@ import { Balance, initModels, modelsBoundTo, ReferenceMaterial, Solvent, User, V
 import { hashPassword } from '../server/services/passwords.ts';
 import { seedDemoPreparations } from './demo-preparations.ts';
 import { seedDemoVolumeChecks } from './demo-volume-checks.ts';
+import { seedDemoWorkingStandards } from './demo-working-standards.ts';
 import { DEMO_PASSWORD, demoBalances, demoMaterials, demoSolvents, demoUsers, demoVolumetricWare } from './demo-data.ts';
 import { shiftDemoRecord } from './demo-clock.ts';
 
@@ -44,6 +45,7 @@ export async function seedDemoLab(
   });
   await seedDemoPreparations(now);
   await seedDemoVolumeChecks(now);
+  await seedDemoWorkingStandards(now);
   return {
     seeded: true,
     counts: {
