@@ -394,8 +394,8 @@ const flask = (ml: string, tol: string, n = '01', cls: 'A' | 'B' = 'A'): DemoWar
   material: BORO,
   status: 'in_service',
 });
-const pipette = (ml: string, tol: string, n = '01'): DemoWare => ({
-  identifier: `BP-${ml}-${n}`,
+const pipette = (ml: string, tol: string): DemoWare => ({
+  identifier: `BP-${ml}-01`,
   kind: 'bulb_pipette',
   nominalVolumeMl: ml,
   wareClass: 'A',
@@ -416,10 +416,6 @@ export const demoVolumetricWare: DemoWare[] = [
   flask('1000', '0.40'),
   // A class B flask (ISO 1042: twice the class A tolerance), to show the class gate.
   flask('100', '0.20', 'B1', 'B'),
-  // More class A flasks for the demo working standards (seed/demo-working-standards.ts): one flask per solution.
-  ...['03', '04', '05', '06', '07', '08', '09', '10'].map((n) => flask('100', '0.10', n)),
-  flask('50', '0.06', '02'),
-  flask('50', '0.06', '03'),
   // ISO 648 class A one-mark (bulb) pipettes (tolerances from memory).
   pipette('1', '0.008'),
   pipette('2', '0.010'),
@@ -428,12 +424,6 @@ export const demoVolumetricWare: DemoWare[] = [
   pipette('20', '0.030'),
   pipette('25', '0.030'),
   pipette('50', '0.050'),
-  // Second and third pipettes of the common sizes, so each open working standard has its own.
-  pipette('1', '0.008', '02'),
-  pipette('1', '0.008', '03'),
-  pipette('2', '0.010', '02'),
-  pipette('5', '0.015', '02'),
-  pipette('10', '0.020', '02'),
   // ISO 835 class A graduated pipette, 10 mL (tolerance from memory).
   { identifier: 'GP-10-01', kind: 'graduated_pipette', nominalVolumeMl: '10', wareClass: 'A', toleranceMl: '0.05', material: BORO, status: 'in_service' },
   // Piston pipettes: ISO 8655-2 maximum systematic error at nominal volume, 0.8 % (from memory).

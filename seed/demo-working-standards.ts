@@ -12,8 +12,9 @@
  *      stocks, verified.
  *   5. An earlier Pb stock made in October (expired) and a Pb 100 mg/L working standard from it, expired with
  *      it: its expiry was capped by the parent's, so QA's extension is refused, naming the parent.
- * Each solution has its own flask and each open record its own pipettes (demo-data.ts adds VF-100-03…10,
- * VF-50-02/03 and second pipettes). The readings are invented but plausible for the balances used.
+ * Each solution has its own flask and each open record its own pipettes: the chemist registers VF-100-03…10,
+ * VF-50-02/03 and second and third bulb pipettes first (inventory service, ISO 1042 / ISO 648 class A
+ * tolerances as in demo-data.ts, from memory). The readings are invented but plausible for the balances used.
  * Handling lead and cadmium solutions: the usual cautions (gloves, eye protection, fume hood for the nitric acid
  * digestion); the SDS and local procedures decide.
  */
@@ -21,6 +22,8 @@ import { D } from '../shared/calc/index.ts';
 import { Balance, Preparation, ReferenceMaterial, Solvent, User, VolumetricWare } from '../server/db/models/index.ts';
 import { AppError } from '../server/errors/app-error.ts';
 import { createPreparation, recordMakeUp, recordWeighing, type Actor } from '../server/services/preparations.service.ts';
+import { createVolumetricWare } from '../server/services/inventory.service.ts';
+import { wareCreateInputSchema } from '../shared/schemas/inventory.ts';
 import { createDilution, createSeries, recordAliquot } from '../server/services/lineage.service.ts';
 import { createMix } from '../server/services/mix.service.ts';
 import { createGravimetricDilution, recordGravimetricReadings } from '../server/services/gravimetric-dilution.service.ts';
@@ -82,6 +85,15 @@ export async function seedDemoWorkingStandards(now: Date = new Date()): Promise<
   const signing = (iso: string) => ({ lockoutThreshold: 5, publicUrl: process.env.PUBLIC_URL ?? `http://localhost:${process.env.PORT || 3000}`, now: when(iso) });
   const prepared = (key: string, who: Actor, iso: string) => sign(key, { meaning: 'prepared', password: DEMO_PASSWORD, acknowledgeResponsibility: true }, who, signing(iso));
   const verified = (key: string, who: Actor, iso: string) => sign(key, { meaning: 'verified', password: DEMO_PASSWORD, checklist, acknowledgeResponsibility: true }, who, signing(iso));
+
+  // More class A ware, registered through the inventory service (audited like any new item).
+  const BORO = 'borosilicate 3.3';
+  const newWare = [
+    ...['03', '04', '05', '06', '07', '08', '09', '10'].map((n) => ({ identifier: `VF-100-${n}`, kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', material: BORO })),
+    ...['02', '03'].map((n) => ({ identifier: `VF-50-${n}`, kind: 'volumetric_flask', nominalVolumeMl: '50', class: 'A', toleranceMl: '0.06', material: BORO })),
+    ...[['1', '0.008', '02'], ['1', '0.008', '03'], ['2', '0.010', '02'], ['5', '0.015', '02'], ['10', '0.020', '02']].map(([ml, tol, n]) => ({ identifier: `BP-${ml}-${n}`, kind: 'bulb_pipette', nominalVolumeMl: ml!, class: 'A', toleranceMl: tol!, material: BORO })),
+  ];
+  for (const w of newWare) await createVolumetricWare(wareCreateInputSchema.parse(w), maren);
 
   // The verified Pb stock of seed/demo-preparations.ts (the first Pb record).
   const leadRow = await Preparation.findOne({ where: { analyteFormula: 'Pb', status: 'verified' }, order: [['id', 'ASC']] });
