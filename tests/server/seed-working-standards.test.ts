@@ -1,12 +1,19 @@
 // The demo lab's working standards (seed/demo-working-standards.ts), seeded through the services: each record is
 // there with its status, the series has two levels verified, one prepared and two planned, the expired standard's
 // QA extension is refused by its parent's expiry, the lead lot's trace is a tree, and the audit chain verifies.
+import { mkdtempSync, rmSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { QueryTypes } from 'sequelize';
 import request from 'supertest';
+import { migrateUp } from '../../server/db/migrate.ts';
+import { openDatabase } from '../../server/db/sequelize.ts';
+import { seedDemoLab } from '../../seed/seed-demo-lab.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Preparation } from '../../server/db/models/index.ts';
 import { verifyAuditChain } from '../../server/services/audit.service.ts';
 import { demoDay } from '../../seed/demo-clock.ts';
-import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { DEMO, DEMO_PASSWORD, demoPasswordHash, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 
 let t: TestApp;
 let qa: string;
@@ -117,4 +124,30 @@ describe('demo working standards', () => {
     expect(sealed).toBe(0);
     for (const r of rows) expect((await get(`/api/preparations/${r.identifier}`)).status).not.toBe('seal_broken');
   });
+});
+
+describe('demo working standards seeded on a later day (dates move with the seeding day, seed/demo-clock.ts)', () => {
+  // last in the file: seeding another database binds the models to it
+  it('seeded months after the base day, the same records have the same statuses and the expired one is still refused by its parent', async () => {
+    const later = new Date('2027-03-15T08:00:00Z');
+    const dir = mkdtempSync(join(tmpdir(), 'tarebook-ws-later-'));
+    const sequelize = await openDatabase(join(dir, 's.sqlite'));
+    try {
+      await migrateUp(sequelize);
+      await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash(), now: later });
+      const got = await sequelize.query<{ kind: string; status: string; expires_on: string; target_value: string; target_unit: string }>(
+        "SELECT kind, status, expires_on, target_value, target_unit FROM preparations WHERE id > 5 ORDER BY id",
+        { type: QueryTypes.SELECT },
+      );
+      const now = await t.sequelize.query<{ kind: string; status: string; target_value: string; target_unit: string }>("SELECT kind, status, target_value, target_unit FROM preparations WHERE id > 5 ORDER BY id", { type: QueryTypes.SELECT });
+      expect(got.map(({ kind, status, target_value, target_unit }) => ({ kind, status, target_value, target_unit }))).toEqual(now);
+      const ws = got.find((r) => r.kind === 'dilution' && r.target_value === '100')!;
+      expect(ws.expires_on).toBe(demoDay('2026-10-31', later));
+      expect(ws.expires_on < '2027-03-15').toBe(true);
+      expect(got.filter((r) => r.expires_on >= '2027-03-15').length).toBe(got.length - 2); // all but the October stock and its dilution are in date
+    } finally {
+      await sequelize.close();
+      rmSync(dir, { recursive: true, force: true });
+    }
+  }, 240_000);
 });
