@@ -7,6 +7,7 @@ import { Balance, initModels, modelsBoundTo, ReferenceMaterial, Solvent, User, V
 import { hashPassword } from '../server/services/passwords.ts';
 import { seedDemoPreparations } from './demo-preparations.ts';
 import { seedDemoVolumeChecks } from './demo-volume-checks.ts';
+import { seedDemoWorkingStandards } from './demo-working-standards.ts';
 import { DEMO_PASSWORD, demoBalances, demoMaterials, demoSolvents, demoUsers, demoVolumetricWare } from './demo-data.ts';
 import { shiftDemoRecord } from './demo-clock.ts';
 
@@ -22,7 +23,18 @@ export interface SeedResult {
 
 export async function seedDemoLab(
   sequelize: Sequelize,
-  opts: { env?: NodeJS.ProcessEnv; passwordHash?: string; /** the seeding day (demo dates move with it, seed/demo-clock.ts) */ now?: Date } = {},
+  opts: {
+    env?: NodeJS.ProcessEnv;
+    passwordHash?: string;
+    /** the seeding day (demo dates move with it, seed/demo-clock.ts) */
+    now?: Date;
+    /**
+     * the working standards of seed/demo-working-standards.ts (default true). The test harness leaves them out
+     * unless a test asks (tests/server/helpers/test-app.ts): most tests build their own records, and the full
+     * demo takes several seconds more to seed.
+     */
+    workingStandards?: boolean;
+  } = {},
 ): Promise<SeedResult> {
   const env = opts.env ?? process.env;
   if (env.NODE_ENV === 'production') {
@@ -44,6 +56,7 @@ export async function seedDemoLab(
   });
   await seedDemoPreparations(now);
   await seedDemoVolumeChecks(now);
+  if (opts.workingStandards !== false) await seedDemoWorkingStandards(now);
   return {
     seeded: true,
     counts: {

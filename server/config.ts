@@ -29,6 +29,8 @@ export interface Config {
   /** Base of the links in e-mails (PUBLIC_URL); null = http://localhost:<port> once listening. */
   publicUrl: string | null;
   mail: MailConfig;
+  /** Seed the demo lab's working standards with it (DEMO_WORKING_STANDARDS, default on; "0" seeds stocks only, as the browser tests do). */
+  demoWorkingStandards: boolean;
 }
 
 /**
@@ -139,6 +141,7 @@ export function loadConfig(env: NodeJS.ProcessEnv = process.env): Config {
     loginDelayMs: intFrom(env, 'LOGIN_DELAY_MS', 1000),
     publicUrl: env.PUBLIC_URL ? env.PUBLIC_URL.replace(/\/+$/, '') : null,
     mail: mailConfig(env, production),
+    demoWorkingStandards: env.DEMO_WORKING_STANDARDS !== '0',
   };
 }
 

@@ -61,7 +61,7 @@ async function main(): Promise<void> {
 
   if (!config.production && (await User.count()) === 0) {
     const { seedDemoLab } = await import('../seed/seed-demo-lab.ts');
-    const result = await seedDemoLab(sequelize);
+    const result = await seedDemoLab(sequelize, { workingStandards: config.demoWorkingStandards });
     if (result.seeded) logger.info('Seeded the demo lab (Harbourside Water Laboratory); password for all demo accounts: bench-demo-2026');
   }
 

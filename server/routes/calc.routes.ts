@@ -5,6 +5,8 @@ import { calcPreparationRequestSchema, type CalcPreparationRequest } from '../..
 import { AppError } from '../errors/app-error.ts';
 import { requireAuth } from '../middleware/session.ts';
 import { previewPreparation } from '../services/calc.service.ts';
+import { buoyancyTablePdf, getBuoyancyTable } from '../services/buoyancy-table.service.ts';
+import { buoyancyTableQuerySchema } from '../../shared/schemas/buoyancy-table.ts';
 
 const TEXT_KEYS = new Set(['unit', 'formula', 'analyteFormula', 'rounding']);
 const NUMBER_MESSAGE = 'Enter a decimal number such as 100.0 or 1.5e-3 (use a point, not a comma)';
@@ -45,6 +47,18 @@ export function calcRouter(): Router {
   router.post('/calc/preparation', requireAuth, (req, res) => {
     const input = parseRequest(req.body);
     res.json(previewPreparation(input));
+  });
+  // GET /api/calc/buoyancy-table?t=&p=&rh=&weightDensity= (any signed-in role): B = m/m' and 1/B per named sample.
+  router.get('/calc/buoyancy-table', requireAuth, async (req, res) => {
+    res.json(await getBuoyancyTable(buoyancyTableQuerySchema.parse(req.query)));
+  });
+  // The same table as an A4 PDF to post at the balance.
+  router.get('/calc/buoyancy-table.pdf', requireAuth, async (req, res) => {
+    const { pdf, filename } = await buoyancyTablePdf(buoyancyTableQuerySchema.parse(req.query), req.user!.fullName);
+    res.setHeader('Content-Type', 'application/pdf');
+    res.setHeader('Content-Disposition', `inline; filename="${filename}"`);
+    res.setHeader('Cache-Control', 'no-store');
+    res.send(pdf);
   });
   return router;
 }

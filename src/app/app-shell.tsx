@@ -14,6 +14,7 @@ type NavItem = { to: string; label: string; roles?: readonly Role[]; end?: boole
 const NAV: NavItem[] = [
   { to: '/', label: 'Home', end: true, testId: 'nav-home' },
   { to: '/calculate', label: 'Calculate', testId: 'nav-calculate' },
+  { to: '/buoyancy', label: 'Buoyancy table', testId: 'nav-buoyancy' },
   { to: '/preparations', label: 'Preparations', end: true, testId: 'nav-preparations' },
   { to: '/preparations/new', label: 'Plan a standard', roles: ['chemist'], testId: 'nav-plan' },
   { to: '/series', label: 'Calibration series', testId: 'nav-series' },

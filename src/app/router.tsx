@@ -30,6 +30,10 @@ export const router = createBrowserRouter([
             lazy: async () => ({ Component: (await import('../features/calculate/calculate-page.tsx')).CalculatePage }),
           },
           {
+            path: 'buoyancy',
+            lazy: async () => ({ Component: (await import('../features/buoyancy/buoyancy-page.tsx')).BuoyancyPage }),
+          },
+          {
             path: 'preparations',
             children: [
               { index: true, lazy: async () => ({ Component: (await import('../features/preparations/preparations-page.tsx')).PreparationsPage }) },

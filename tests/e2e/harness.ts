@@ -29,10 +29,11 @@ function freePort(): Promise<number> {
   });
 }
 
-export async function startServer(): Promise<RunningServer> {
+/** opts.workingStandards: seed the demo lab's working standards too (seed/demo-working-standards.ts); by default stocks only */
+export async function startServer(opts: { workingStandards?: boolean } = {}): Promise<RunningServer> {
   const dir = mkdtempSync(join(tmpdir(), 'tarebook-e2e-'));
   const port = await freePort();
-  const env: NodeJS.ProcessEnv = { ...process.env, PORT: String(port), TAREBOOK_DB: join(dir, 'e2e.sqlite') };
+  const env: NodeJS.ProcessEnv = { ...process.env, PORT: String(port), TAREBOOK_DB: join(dir, 'e2e.sqlite'), DEMO_WORKING_STANDARDS: opts.workingStandards ? '1' : '0' };
   delete env.NODE_ENV; // vitest sets "test"; the server must run as a plain `npm start` would
   delete env.VITE_MIDDLEWARE;
 

@@ -52,6 +52,8 @@ const ROWS: Row[] = [
   { method: 'put', path: '/api/settings', allowed: ['admin'], ok: 200, body: () => ({ readingWindowPct: '5' }) },
   { method: 'post', path: '/api/calc/preparation', allowed: 'signedIn', ok: 200, body: () => validCalcRequest() },
   { method: 'post', path: '/api/calc/volume-check', allowed: 'signedIn', ok: 200, body: () => validVolumeCheckRequest() },
+  { method: 'get', path: '/api/calc/buoyancy-table', allowed: 'signedIn', ok: 200 },
+  { method: 'get', path: '/api/calc/buoyancy-table.pdf', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/materials', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/balances', allowed: 'signedIn', ok: 200 },
   { method: 'get', path: '/api/volumetric-ware', allowed: 'signedIn', ok: 200 },

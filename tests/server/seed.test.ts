@@ -130,7 +130,8 @@ describe('demo dates move with the seeding day (seed/demo-clock.ts)', () => {
     const sequelize = await openDatabase(join(dir, 's.sqlite'));
     try {
       await migrateUp(sequelize);
-      await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash(), now: later });
+      // stocks only: the working standards seeded on another day are checked in seed-working-standards.test.ts
+      await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash(), now: later, workingStandards: false });
       const [pb] = await sequelize.query<{ status: string; expires_on: string; created_on: string }>("SELECT status, expires_on, created_on FROM preparations WHERE analyte_formula = 'Pb' ORDER BY id LIMIT 1", { type: QueryTypes.SELECT });
       expect(pb).toMatchObject({ status: 'verified', created_on: '2027-02-21', expires_on: '2027-03-23' }); // 2026-11-09 + 30 d, moved by 104 d: in date
       const [a2] = await sequelize.query<{ calibration_due_on: string }>("SELECT calibration_due_on FROM balances WHERE identifier = 'BAL-A2'", { type: QueryTypes.SELECT });

@@ -41,7 +41,8 @@ export interface TestApp {
 }
 
 export async function makeTestApp(
-  opts: { seed?: boolean; env?: Record<string, string>; distDir?: string } = {},
+  /** seed: true (default) the demo lab's users, inventory, stocks and volume checks; 'full' adds its working standards (seed/demo-working-standards.ts); false nothing */
+  opts: { seed?: boolean | 'full'; env?: Record<string, string>; distDir?: string } = {},
 ): Promise<TestApp> {
   const dir = mkdtempSync(join(tmpdir(), 'tarebook-test-'));
   const dbPath = join(dir, 'test.sqlite');
@@ -55,7 +56,7 @@ export async function makeTestApp(
   const sequelize = await openDatabase(dbPath);
   await migrateUp(sequelize);
   if (opts.seed !== false) {
-    await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash() });
+    await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await demoPasswordHash(), workingStandards: opts.seed === 'full' });
   }
   const app = createApp({ sequelize, config, distDir: opts.distDir ?? join(dir, 'no-dist') });
   return {
