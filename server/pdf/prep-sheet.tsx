@@ -657,11 +657,16 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         </Section>
 
         <Section title="Hazards">
+          <KV k="Task" v={d.hazards.task} />
           <KV k="Pictograms" v={d.hazards.pictograms.length ? d.hazards.pictograms.join(', ') : 'none recorded for the material'} />
           {d.hazards.statements.length ? <KV k="Hazard statements" v={d.hazards.statements.join(', ')} /> : null}
+          {d.hazards.solvents.filter((x) => x.hazards).map((x, i) => (
+            <KV key={`sv${i}`} k={i === 0 ? 'Solvent hazards' : ''} v={`${x.name}: ${x.hazards}${x.pictograms.length ? ` (${x.pictograms.join(', ')})` : ''}`} />
+          ))}
           {d.hazards.cautions.map((c, i) => (
             <KV key={i} k={i === 0 ? 'Cautions' : ''} v={c} />
           ))}
+          <KV k="" v={d.hazards.sdsNote} bold />
         </Section>
 
         {d.gates.length || d.notes ? (

@@ -34,7 +34,7 @@ import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
 import { CALC_VERSION, computeResult, flaskVolumeUncertainty, planNumbers, readingInMg, runCore, coreRequest, type CoreInputs } from './preparation-calc.ts';
-import { hazardsFor } from './preparation-hazards.ts';
+import { preparationHazards } from './preparation-hazards.ts';
 import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from './preparation-snapshots.ts';
 import { getSettings } from './settings.service.ts';
 import { checkChange, recordAmendment, shownColumns, signatureView } from './signatures.service.ts';
@@ -457,7 +457,7 @@ async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationD
     gates: p.gates,
     weighings: weighings.map((w) => weighingDto(w, supersededBy, users)),
     makeUpHistory: makeUps.slice(0, -1).map((m) => makeUpDto(m, users)),
-    hazards: hazardsFor(p.snapshotMaterial),
+    hazards: await preparationHazards(p, latestMakeUp ?? null),
     statusHistory: events.map((e) => ({ status: e.status, at: e.at, by: { id: e.byId, fullName: e.byName }, ...(e.note ? { note: e.note } : {}) })),
     expiry: { expiresOn: p.expiresOn, reason: p.expiryReason },
     ...(await signatureView(p, weighings, makeUps, viewerId)),

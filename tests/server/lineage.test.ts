@@ -138,7 +138,11 @@ describe('POST /api/preparations/:key/dilutions', () => {
     expectClose(r.value, new D(parent.result.concentration.value).div(100), '1e-15'); // c2 = c1·Vp/Vf [METROLOGY §5.5]
     expect(r.basedOn).toEqual({ aliquotId: a.body.dilution.aliquots[0].id, makeUpId: m.body.makeUp.id });
     expect(r.display).toMatch(/^10\.0\d0 ± 0\.0\d\d mg\/L \(k = 2\)$/);
-    // the make-up keeps the parent cap on the expiry (EX-01)
+    // cautions for pipetting a solution, not weighing a dust (issue 16 §4; shared/prep/cautions.ts)
+    expect(m.body.hazards.task).toMatch(/^Pipetting a solution/);
+    expect(m.body.hazards.cautions.some((c: string) => /dust/.test(c))).toBe(false);
+    expect(m.body.hazards.cautions).toContain('Never pipette by mouth: use a pipette filler or the piston pipette, and wear gloves and eye protection');
+        // the make-up keeps the parent cap on the expiry (EX-01)
     expect(m.body.expiry.expiresOn <= parent.expiresOn).toBe(true);
     const w = await send('chemist', 'post', `/api/preparations/${d.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS });
     expect(w.status).toBe(409);

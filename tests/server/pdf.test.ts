@@ -203,6 +203,10 @@ describe('prep sheet text (pdf-parse)', () => {
     expect(all).toContain('Purity (mass fraction)');
     expect(all).toContain(`Expires on ${d.expiry.expiresOn}`);
     for (const p of d.hazards.pictograms) expect(all).toContain(p);
+    // the cautions of the task, the solvent's own hazards named, the SDS line once (issue 16 §4)
+    expect(all).toContain(d.hazards.task);
+    for (const sv of d.hazards.solvents.filter((x: { hazards: string | null }) => x.hazards)) expect(all).toContain(`${sv.name}: ${sv.hazards}`);
+    expect(all.split(d.hazards.sdsNote).length - 1).toBe(1);
     expect(all).toContain('Audit summary');
     expect(all).toMatch(/\d+ audit entries for this record/);
     expect(all).toContain('No signatures yet');

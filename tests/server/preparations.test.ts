@@ -233,12 +233,14 @@ describe('plan numbers (METROLOGY §5.4 Pb(NO3)2 example)', () => {
     expect(p.conditionsUsed).toMatchObject({ source: 'lab-default', temperatureC: '20.0', pressureHPa: '1013', relativeHumidityPct: '50' });
   });
 
-  it('when planned, then the record carries hazards from the material (GHS08/H360 caution and the standing note), expiry and the plan event', async () => {
+  it('when planned, then the record carries hazards from the material for weighing the solid (GHS08/H360 caution, the SDS line apart), expiry and the plan event', async () => {
     const p = await plan({ notes: 'for the ICP calibration' });
     expect(p.identifier).toMatch(/^HWL-\d{4}-\d{4}$/);
     expect(p.stage).toBe('planned');
-    expect(p.hazards.cautions).toContain('May damage fertility or the unborn child: handle in a fume hood with gloves; follow the SDS and the lab’s procedures');
-    expect(p.hazards.cautions.at(-1)).toBe('Follow the SDS, local regulations and the laboratory’s own procedures.');
+    expect(p.hazards.cautions).toContain('May damage fertility or the unborn child: weigh the solid in a ventilated balance enclosure or fume hood, with gloves; do not breathe the dust');
+    expect(p.hazards.task).toMatch(/^Weighing the solid/);
+    expect(p.hazards.sdsNote).toBe('Follow the SDS, local regulations and the laboratory’s own procedures.');
+    expect(p.hazards.cautions).not.toContain(p.hazards.sdsNote);
     expect(p.statusHistory).toEqual([expect.objectContaining({ status: 'planned', by: expect.objectContaining({ fullName: 'Dr. Maren Tollefsen' }), note: 'for the ICP calibration' })]);
     expect(p.expiry.reason).toMatch(/stability period|reference material/);
     expect(p.plan.targetReading.value).toBe('159.91');
