@@ -19,6 +19,7 @@ import { STANDING_NOTE } from '../../server/services/preparation-hazards.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 let t: TestApp;
@@ -53,7 +54,7 @@ async function verifiedStock(): Promise<string> {
   const key = p.body.identifier as string;
   expect((await send('chemist', 'post', `/api/preparations/${key}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS })).status).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  expect((await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
+  expect((await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
   expect((await signAs('chemist', key, 'prepared')).status).toBe(201);
   expect((await signAs('chemist2', key, 'verified')).status).toBe(201);
   return key;
