@@ -411,6 +411,7 @@ export const demoVolumetricWare: DemoWare[] = [
   flask('50', '0.06'),
   flask('100', '0.10'),
   flask('100', '0.10', '02'),
+  flask('100', '0.10', '03'),
   flask('250', '0.15'),
   flask('500', '0.25'),
   flask('1000', '0.40'),

@@ -114,14 +114,15 @@ export async function seedDemoPreparations(now: Date = new Date()): Promise<numb
   );
   await recordMakeUp(cl.identifier, { flaskIdentifier: 'VF-250-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.8', applyTemperatureCorrection: false }, priya, at('2026-11-12T10:40:00Z'));
 
-  // 3. TOC from KHP: the transfer overshot the window; the portion was kept and the reason recorded.
+  // 3. TOC from KHP: the transfer overshot the window; the portion was kept and the reason recorded. In VF-100-03:
+  //    VF-100-01 still holds the Pb stock (one flask, one open solution).
   const t3 = '2026-11-18T13:30:00Z';
   const toc = await createPreparation(
     {
       materialId: await material('C8H5KO4'),
       analyteFormula: 'C',
       target: { value: '1000', unit: 'mg/L' },
-      flaskId: await flask('VF-100-01'),
+      flaskId: await flask('VF-100-03'),
       balanceId: await balance('BAL-A1'),
       conditions: room('21.4', '1002', '41', t3),
     },
@@ -142,7 +143,7 @@ export async function seedDemoPreparations(now: Date = new Date()): Promise<numb
     maren,
     at('2026-11-18T13:42:00Z'),
   );
-  await recordMakeUp(toc.identifier, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '21.2', applyTemperatureCorrection: false }, maren, at('2026-11-18T13:58:00Z'));
+  await recordMakeUp(toc.identifier, { flaskIdentifier: 'VF-100-03', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '21.2', applyTemperatureCorrection: false }, maren, at('2026-11-18T13:58:00Z'));
 
   // Signatures: Pb prepared by Maren and verified by Idris (who entered none of its data); TOC prepared, awaiting review.
   const signing = (iso: string) => ({ lockoutThreshold: 5, publicUrl: process.env.PUBLIC_URL ?? `http://localhost:${process.env.PORT || 3000}`, now: new Date(when(iso)) });

@@ -4,24 +4,16 @@
  */
 import Decimal from 'decimal.js';
 import { DECIMAL_TEXT } from '../../shared/schemas/decimal-text.ts';
+import { labDate, labDateTime as sharedLabDateTime, utcOffset, zoneAbbreviation } from '../../shared/prep/lab-time.ts';
 
-function parts(at: Date, timeZone: string, extra: Intl.DateTimeFormatOptions) {
-  const p = new Intl.DateTimeFormat('en-GB', { timeZone, hourCycle: 'h23', ...extra }).formatToParts(at);
-  return (t: string) => p.find((x) => x.type === t)?.value ?? '';
-}
-
-/** "YYYY-MM-DD" of an instant in the lab's time zone. */
+/** "YYYY-MM-DD" of an instant in the lab's time zone (shared/prep/lab-time.ts). */
 export function labDay(iso: string, timeZone: string): string {
-  const get = parts(new Date(iso), timeZone, { year: 'numeric', month: '2-digit', day: '2-digit' });
-  return `${get('year')}-${get('month')}-${get('day')}`;
+  return labDate(iso, timeZone);
 }
 
-/** "YYYY-MM-DD HH:MM <zone> (UTC±hh:mm)" in the lab's time zone. */
+/** "YYYY-MM-DD HH:MM <zone> (UTC±hh:mm)" in the lab's time zone: a printed time names its zone (a sheet leaves the lab). */
 export function labDateTime(iso: string, timeZone: string): string {
-  const at = new Date(iso);
-  const get = parts(at, timeZone, { year: 'numeric', month: '2-digit', day: '2-digit', hour: '2-digit', minute: '2-digit', timeZoneName: 'short' });
-  const offset = parts(at, timeZone, { timeZoneName: 'longOffset' })('timeZoneName').replace('GMT', 'UTC') || 'UTC';
-  return `${get('year')}-${get('month')}-${get('day')} ${get('hour')}:${get('minute')} ${get('timeZoneName')} (${offset === 'UTC' ? 'UTC+00:00' : offset})`;
+  return `${sharedLabDateTime(iso, timeZone)} ${zoneAbbreviation(timeZone, iso)} (${utcOffset(timeZone, iso)})`;
 }
 
 /** A decimal string shown with at most `places` decimals, half-even (display only; stored values keep full precision). */

@@ -22,7 +22,7 @@ export interface PrepSheetData {
   detail: PreparationDetail;
   /** [] when the record has no signatures (or the signatures feature is not present) */
   signatures: Signature[];
-  /** the record-level trail (preparation, its weighings and make-ups), oldest first, without print entries */
+  /** the record-level trail (preparation, its weighings, aliquots, make-ups and gravimetric readings), oldest first */
   trail: AuditEntryDto[];
   /** how many times sheets and labels were printed before this one */
   printCount: number;
@@ -657,11 +657,16 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         </Section>
 
         <Section title="Hazards">
+          <KV k="Task" v={d.hazards.task} />
           <KV k="Pictograms" v={d.hazards.pictograms.length ? d.hazards.pictograms.join(', ') : 'none recorded for the material'} />
           {d.hazards.statements.length ? <KV k="Hazard statements" v={d.hazards.statements.join(', ')} /> : null}
+          {d.hazards.solvents.filter((x) => x.hazards).map((x, i) => (
+            <KV key={`sv${i}`} k={i === 0 ? 'Solvent hazards' : ''} v={`${x.name}: ${x.hazards}${x.pictograms.length ? ` (${x.pictograms.join(', ')})` : ''}`} />
+          ))}
           {d.hazards.cautions.map((c, i) => (
             <KV key={i} k={i === 0 ? 'Cautions' : ''} v={c} />
           ))}
+          <KV k="" v={d.hazards.sdsNote} bold />
         </Section>
 
         {d.gates.length || d.notes ? (
@@ -678,7 +683,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
         </Section>
 
         <Section title="Audit summary">
-          <T style={s.para}>{`${data.trail.length} audit entries for this record and its weighings and make-ups; printed ${data.printCount} time(s) before this copy. Times in ${tz}.`}</T>
+          <T style={s.para}>{`${data.trail.length} audit entries for this record and its weighings, aliquots, make-ups and gravimetric readings; printed ${data.printCount} time(s) before this copy. Times in ${tz}.`}</T>
           <Table
             cols={[
               { title: 'When', width: '27%' },

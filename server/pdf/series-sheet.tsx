@@ -179,11 +179,16 @@ export function SeriesSheetDocument({ data }: { data: SeriesSheetData }) {
 
         <View wrap={false}>
           <Text style={s.h2}>Safety (read before you start)</Text>
+          <KV k="Task" v={sr.hazards.task} />
           {sr.hazards.pictograms.length ? <KV k="Pictograms" v={sr.hazards.pictograms.join(', ')} /> : null}
           {sr.hazards.statements.length ? <KV k="Hazard statements" v={sr.hazards.statements.join(', ')} /> : null}
+          {sr.hazards.solvents.filter((x) => x.hazards).map((x, i) => (
+            <KV key={`sv${i}`} k={i === 0 ? 'Solvent hazards' : ''} v={`${x.name}: ${x.hazards}${x.pictograms.length ? ` (${x.pictograms.join(', ')})` : ''}`} />
+          ))}
           {sr.hazards.cautions.map((c, i) => (
             <KV key={i} k={i === 0 ? 'Cautions' : ''} v={c} />
           ))}
+          <KV k="" v={sr.hazards.sdsNote} />
         </View>
 
         <Text style={s.h2} minPresenceAhead={60}>

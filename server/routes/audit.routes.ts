@@ -4,6 +4,7 @@ import { auditFilterSchema, auditListQuerySchema } from '../../shared/schemas/au
 import { AppError } from '../errors/app-error.ts';
 import { requireAuth, requireRole } from '../middleware/session.ts';
 import * as audit from '../services/audit.service.ts';
+import { getSettings } from '../services/settings.service.ts';
 
 /** Security records (sign-ins, accounts) are QA/admin reading even through the per-record endpoint. */
 const RESTRICTED_ENTITIES = new Set(['session', 'user', 'audit_trail']);
@@ -22,7 +23,7 @@ export function auditRouter(): Router {
   const reviewers = requireRole('qa', 'admin');
 
   router.get('/audit', reviewers, async (req, res) => {
-    res.json(await audit.listAudit(auditListQuerySchema.parse(req.query)));
+    res.json(await audit.listAudit(auditListQuerySchema.parse(req.query), (await getSettings()).timeZone)); // from/to are lab days
   });
 
   router.get('/audit/export.csv', reviewers, async (req, res) => {
@@ -33,7 +34,8 @@ export function auditRouter(): Router {
     res.setHeader('Content-Disposition', `attachment; filename="tarebook-audit-${stamp}.csv"`);
     res.setHeader('Cache-Control', 'no-store');
     res.write(audit.csvLine([...audit.AUDIT_CSV_COLUMNS]));
-    for await (const entry of audit.allAudit(filter)) res.write(audit.auditCsvLine(entry));
+    const { timeZone } = await getSettings();
+    for await (const entry of audit.allAudit(filter, timeZone)) res.write(audit.auditCsvLine(entry));
     res.end();
   });
 

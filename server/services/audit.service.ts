@@ -58,6 +58,8 @@ import type {
   AuditVerifyResult,
 } from '../../shared/schemas/audit.ts';
 import { AuditEntry } from '../db/models/index.ts';
+import { labDayStart } from '../../shared/prep/lab-time.ts';
+import { addDays } from '../../shared/prep/dates.ts';
 import { canonicalJson, writeTransaction } from '../db/transaction.ts';
 import { currentSessionId } from './request-context.ts';
 import { defaultAnchorFile, devChainKey } from '../config.ts';
@@ -435,15 +437,18 @@ function toDto(row: AuditEntry): AuditEntryDto {
   };
 }
 
-/** `to` is a whole UTC day: entries up to the end of that day are included. */
-function where(query: Omit<AuditListQuery, 'page' | 'pageSize'>): WhereOptions<AuditEntry> {
+/**
+ * `from` and `to` are lab days (calendar days in the lab's time zone, shared/prep/lab-time.ts), both included: from
+ * 00:00 on `from` to before 00:00 on the day after `to`, on the lab's clock.
+ */
+function where(query: Omit<AuditListQuery, 'page' | 'pageSize'>, timeZone: string): WhereOptions<AuditEntry> {
   const and: WhereOptions<AuditEntry>[] = [];
   if (query.entity) and.push({ entity: query.entity });
   if (query.entityId) and.push({ entityId: query.entityId });
   if (query.actorId !== undefined) and.push({ actorId: query.actorId });
   if (query.action) and.push({ action: query.action });
-  if (query.from) and.push({ occurredAt: { [Op.gte]: `${query.from}T00:00:00.000Z` } });
-  if (query.to) and.push({ occurredAt: { [Op.lte]: `${query.to}T23:59:59.999Z` } });
+  if (query.from) and.push({ occurredAt: { [Op.gte]: labDayStart(query.from, timeZone) } });
+  if (query.to) and.push({ occurredAt: { [Op.lt]: labDayStart(addDays(query.to, 1), timeZone) } });
   if (query.search) {
     // Case-insensitive substring (instr, not LIKE, so % and _ are plain characters).
     const needle = query.search.toLowerCase();
@@ -456,10 +461,10 @@ function where(query: Omit<AuditListQuery, 'page' | 'pageSize'>): WhereOptions<A
   return and.length ? { [Op.and]: and } : {};
 }
 
-export async function listAudit(query: AuditListQuery): Promise<AuditPage> {
+export async function listAudit(query: AuditListQuery, timeZone = 'UTC'): Promise<AuditPage> {
   const { page, pageSize } = query;
   const { rows, count } = await AuditEntry.findAndCountAll({
-    where: where(query),
+    where: where(query, timeZone),
     order: [['id', 'DESC']],
     limit: pageSize,
     offset: (page - 1) * pageSize,
@@ -468,10 +473,10 @@ export async function listAudit(query: AuditListQuery): Promise<AuditPage> {
 }
 
 /** Every matching entry, newest first, in pages of 1000 (for the CSV export). */
-export async function* allAudit(query: Omit<AuditListQuery, 'page' | 'pageSize'>): AsyncGenerator<AuditEntryDto> {
+export async function* allAudit(query: Omit<AuditListQuery, 'page' | 'pageSize'>, timeZone = 'UTC'): AsyncGenerator<AuditEntryDto> {
   let beforeId: number | null = null;
   for (;;) {
-    const base = where(query);
+    const base = where(query, timeZone);
     const rows: AuditEntry[] = await AuditEntry.findAll({
       where: beforeId === null ? base : { [Op.and]: [base, { id: { [Op.lt]: beforeId } }] },
       order: [['id', 'DESC']],

@@ -41,6 +41,7 @@ import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
 import { getSettings } from './settings.service.ts';
 import { checkSignerPassword, currentRecordHash, resetFailures, storeVersion } from './signatures.service.ts';
+import { labDate } from '../../shared/prep/lab-time.ts';
 
 export interface ExtendOptions {
   lockoutThreshold: number;
@@ -50,9 +51,7 @@ export interface ExtendOptions {
 
 /** The lab's calendar date of an instant (YYYY-MM-DD in the settings time zone; as preparations.service labDate). */
 export function labDateOf(at: Date, timeZone: string): string {
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(at);
-  const get = (t: string) => parts.find((p) => p.type === t)!.value;
-  return `${get('year')}-${get('month')}-${get('day')}`;
+  return labDate(at, timeZone); // shared/prep/lab-time.ts
 }
 
 /** Today in the lab's time zone. */

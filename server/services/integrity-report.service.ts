@@ -16,6 +16,8 @@ import { recordAudit, verifyAuditChain, writeAnchor, type ChainAnchor } from './
 import { SEALED_STATUSES } from './record-integrity.ts';
 import { recordSeal } from './signatures.service.ts';
 import type { AuditVerifyResult } from '../../shared/schemas/audit.ts';
+import { labDate } from '../../shared/prep/lab-time.ts';
+import { getSettings } from './settings.service.ts';
 
 export interface IntegrityReport {
   anchor: ChainAnchor | null;
@@ -46,7 +48,7 @@ export async function runDailyIntegrity(now: Date, opts: { mailer?: Mailer } = {
   for (const p of signed) if (await recordSeal(p)) sealBroken.push(p.identifier);
   const chain = await verifyAuditChain();
   const anchor = await writeAnchor(now);
-  const content = integrityMail({ anchor, chain, sealBroken }, now.toISOString().slice(0, 10));
+  const content = integrityMail({ anchor, chain, sealBroken }, labDate(now, (await getSettings()).timeZone)); // the lab's day
   let sent = 0;
   await writeTransaction(async (transaction) => {
     const qa = await User.findAll({ where: { role: 'qa', active: true }, order: [['id', 'ASC']], transaction });

@@ -34,6 +34,8 @@ import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
 import { getSettings } from './settings.service.ts';
+import { flasksHoldingSolutions } from './flask-occupancy.ts';
+import { labDate } from '../../shared/prep/lab-time.ts';
 
 export interface Actor {
   id: number;
@@ -46,10 +48,7 @@ type Change = { field: string; oldValue: unknown; newValue: unknown };
 
 /** Today's calendar date (YYYY-MM-DD) in the lab's time zone (settings.timeZone). */
 export async function labToday(now = new Date()): Promise<string> {
-  const { timeZone } = await getSettings();
-  const parts = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
-  const get = (type: string) => parts.find((p) => p.type === type)!.value;
-  return `${get('year')}-${get('month')}-${get('day')}`;
+  return labDate(now, (await getSettings()).timeZone);
 }
 
 /** Drops keys whose value is undefined (zod's partial output may carry them). */
@@ -520,7 +519,13 @@ export async function listVolumetricWare(query: WareListQuery): Promise<Paged<Wa
   if (query.status) where.push({ status: query.status });
   if (query.kind) where.push({ kind: query.kind });
   if (query.usable) where.push({ status: 'in_service' });
-  return pageOf(VolumetricWare, where, orderBy(WARE_SORT[query.sort], query.dir), query, (rows) => rows.map(wareDto));
+  const page = await pageOf(VolumetricWare, where, orderBy(WARE_SORT[query.sort], query.dir), query, (rows) => rows.map(wareDto));
+  // a flask that still holds an open preparation's solution is marked with it (flask-occupancy.ts), for the pickers
+  if (page.items.some((w) => w.kind === 'volumetric_flask')) {
+    const held = await flasksHoldingSolutions(await labToday());
+    for (const w of page.items) if (w.kind === 'volumetric_flask') w.holds = held.get(w.id) ?? null;
+  }
+  return page;
 }
 
 export async function getVolumetricWare(id: number): Promise<WareDto> {

@@ -36,6 +36,7 @@ import { getPreparation, labDate, type Actor, type WriteOptions } from './prepar
 import { getSettings } from './settings.service.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
 import { failedCheckOf, refuseFailedWare } from './volume-check-gate.ts';
+import { assertFlaskFree, flasksHoldingSolutions } from './flask-occupancy.ts';
 import { activeAliquot, concentrationOf, dilutionBeta, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
@@ -127,11 +128,12 @@ interface PlannedLevel {
   planned: ReturnType<typeof dilutionOf>;
 }
 
-async function planLevel(parent: ParentSnapshot, level: { target: { value: string; unit: string }; pipetteId: number; flaskId: number; aliquotMl?: string }, settings: LabSettings, prefix: string): Promise<PlannedLevel> {
+async function planLevel(parent: ParentSnapshot, level: { target: { value: string; unit: string }; pipetteId: number; flaskId: number; aliquotMl?: string }, settings: LabSettings, prefix: string, today: string): Promise<PlannedLevel> {
   if (level.target.unit !== parent.concentration.unit) {
     throw AppError.validation(`Give the target in ${parent.concentration.unit}, the unit of ${parent.identifier}`, { [`${prefix}target.unit`]: `Give the target in ${parent.concentration.unit}, the unit of ${parent.identifier}` });
   }
   const [pipette, flask] = await Promise.all([pipetteFor(level.pipetteId, `${prefix}pipetteId`), flaskFor(level.flaskId, `${prefix}flaskId`)]);
+  await assertFlaskFree(flask, `${prefix}flaskId`, today); // one flask, one open solution (flask-occupancy.ts)
   const aliquotMl = aliquotVolume(pipette, level.aliquotMl, `${prefix}aliquotMl`);
   if (new D(aliquotMl).gte(flask.nominalVolumeMl)) {
     throw AppError.validation(`A ${aliquotMl} mL aliquot does not fit a ${flask.nominalVolumeMl} mL flask`, { [`${prefix}flaskId`]: `Choose a flask larger than the ${aliquotMl} mL aliquot` });
@@ -259,7 +261,7 @@ export async function createDilution(parentKey: string, input: DilutionInput, ac
   if (input.solventId !== undefined && !(await Solvent.findByPk(input.solventId))) {
     throw AppError.validation(`No solvent with id ${input.solventId} is registered`, { solventId: `No solvent with id ${input.solventId} is registered` });
   }
-  const level = await planLevel(parent, input, settings, '');
+  const level = await planLevel(parent, input, settings, '', today);
   const id = await writeTransaction((t) =>
     insertDilution(parentRow, parent, level, { kind: 'dilution', seriesId: null, ...(input.solventId !== undefined ? { solventId: input.solventId } : {}), ...(input.notes ? { notes: input.notes } : {}) }, actor, settings, today, now.toISOString(), t),
   );
@@ -366,23 +368,6 @@ async function seriesWare(): Promise<{ pipettes: SeriesWare[]; flasks: SeriesWar
   return { pipettes: usable.filter((w) => w.kind !== 'volumetric_flask').map(toSeries), flasks: usable.filter((w) => w.kind === 'volumetric_flask').map(toSeries) };
 }
 
-/**
- * Flasks that hold the solution of a preparation still open (not discarded): the flask of its latest
- * make-up. Flask id → the preparation's identifier. One flask, one open preparation: a proposal never offers
- * a flask that still holds a solution (the stock being diluted included). A planned flask is only a plan:
- * the flask used is the one scanned at make-up.
- */
-export async function flasksHoldingSolutions(): Promise<Map<number, string>> {
-  const rows = await Preparation.sequelize!.query<{ flaskId: number; identifier: string }>(
-    `SELECT (SELECT m.flask_id FROM make_ups m WHERE m.preparation_id = p.id ORDER BY m.id DESC LIMIT 1) AS flaskId, p.identifier AS identifier
-       FROM preparations p WHERE p.status <> 'discarded' ORDER BY p.id`,
-    { type: QueryTypes.SELECT },
-  );
-  const held = new Map<number, string>();
-  for (const r of rows) if (r.flaskId !== null && !held.has(r.flaskId)) held.set(r.flaskId, r.identifier);
-  return held;
-}
-
 /** POST /api/series/proposal */
 export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor, opts: WriteOptions = {}): Promise<SeriesProposalResponse> {
   const now = opts.now ?? new Date();
@@ -390,7 +375,7 @@ export async function proposeSeriesFor(input: SeriesProposalInput, actor: Actor,
   const today = labDate(now, settings.timeZone);
   const parentRow = await findPreparationRow(input.parentKey, 'parentKey');
   const parent = await usableParent(parentRow, actor, settings, today, 'parentKey');
-  const [ware, held] = await Promise.all([seriesWare(), flasksHoldingSolutions()]);
+  const [ware, held] = await Promise.all([seriesWare(), flasksHoldingSolutions(today)]); // the same rule as make-up and planning
   const minAliquotMl = input.minAliquotMl ?? '1';
   const request = {
     parentConcentration: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
@@ -446,7 +431,7 @@ export async function createSeries(input: CreateSeriesInput, actor: Actor, opts:
   const parentRow = await findPreparationRow(input.parentKey, 'parentKey');
   const parent = await usableParent(parentRow, actor, settings, today, 'parentKey');
   const planned: PlannedLevel[] = [];
-  for (const [i, level] of input.levels.entries()) planned.push(await planLevel(parent, level, settings, `levels.${i}.`));
+  for (const [i, level] of input.levels.entries()) planned.push(await planLevel(parent, level, settings, `levels.${i}.`, today));
   const flaskFields: Record<string, string> = {};
   planned.forEach((l, i) => {
     const first = planned.findIndex((o) => o.flask.id === l.flask.id);

@@ -27,6 +27,7 @@ import { wareSnapshot } from './preparation-snapshots.ts';
 import { getPreparation, labDate, type Actor, type WriteOptions } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 import { activeAliquot, dilutionOf, expiryFor, pipetteUncertainty } from './lineage-view.ts';
+import { assertFlaskFree } from './flask-occupancy.ts';
 import { aliquotVolume, findPreparationRow, flaskFor, nextSequence, pipetteFor, usableParent } from './lineage.service.ts';
 import { mixPlanOf, storeMixResults, type MixPlan, type MixPlanComponent } from './mix-view.ts';
 
@@ -78,6 +79,7 @@ export async function createMix(input: MixInput, actor: Actor, opts: WriteOption
 
   // glassware: in service with tolerances; the aliquots must fit the flask
   const flask = await flaskFor(input.flaskId, 'flaskId');
+  await assertFlaskFree(flask, 'flaskId', today); // one flask, one open solution (flask-occupancy.ts)
   const pipettes: WareDto[] = [];
   const volumes: string[] = [];
   for (const [i, c] of input.components.entries()) {

@@ -34,7 +34,9 @@ import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
 import { CALC_VERSION, computeResult, flaskVolumeUncertainty, planNumbers, readingInMg, runCore, coreRequest, type CoreInputs } from './preparation-calc.ts';
-import { hazardsFor } from './preparation-hazards.ts';
+import { preparationHazards } from './preparation-hazards.ts';
+import { labDate as sharedLabDate } from '../../shared/prep/lab-time.ts';
+import { assertFlaskFree } from './flask-occupancy.ts';
 import { balanceSnapshot, materialSnapshot, solventSnapshot, wareSnapshot } from './preparation-snapshots.ts';
 import { getSettings } from './settings.service.ts';
 import { checkChange, recordAmendment, shownColumns, signatureView } from './signatures.service.ts';
@@ -69,26 +71,9 @@ export class GateBlockedError extends AppError {
 
 // ------------------------------------------------------------------ time
 
-/**
- * Intl formatters are costly to build and hold no state: one per time zone, keyed on the zone's name and kept for the
- * life of the process (a handful of zones at most; a changed settings.timeZone simply uses another entry).
- */
-const dateFormats = new Map<string, Intl.DateTimeFormat>();
-function dateFormat(timeZone: string): Intl.DateTimeFormat {
-  let f = dateFormats.get(timeZone);
-  if (!f) {
-    f = new Intl.DateTimeFormat('en-CA', { timeZone, year: 'numeric', month: '2-digit', day: '2-digit' });
-    if (dateFormats.size > 50) dateFormats.clear();
-    dateFormats.set(timeZone, f);
-  }
-  return f;
-}
-
-/** The lab's calendar date of an instant (YYYY-MM-DD in settings.timeZone). */
+/** The lab's calendar date of an instant (YYYY-MM-DD in settings.timeZone): the one lab-date formatter, shared/prep/lab-time.ts. */
 export function labDate(at: Date, timeZone: string): string {
-  const parts = dateFormat(timeZone).formatToParts(at);
-  const get = (t: string) => parts.find((p) => p.type === t)!.value;
-  return `${get('year')}-${get('month')}-${get('day')}`;
+  return sharedLabDate(at, timeZone);
 }
 
 function resolveConditions(input: ConditionsInput, settings: LabSettings, now: Date, field = 'conditions'): ConditionsUsed {
@@ -457,7 +442,7 @@ async function detailOf(p: Preparation, viewerId?: number): Promise<PreparationD
     gates: p.gates,
     weighings: weighings.map((w) => weighingDto(w, supersededBy, users)),
     makeUpHistory: makeUps.slice(0, -1).map((m) => makeUpDto(m, users)),
-    hazards: hazardsFor(p.snapshotMaterial),
+    hazards: await preparationHazards(p, latestMakeUp ?? null),
     statusHistory: events.map((e) => ({ status: e.status, at: e.at, by: { id: e.byId, fullName: e.byName }, ...(e.note ? { note: e.note } : {}) })),
     expiry: { expiresOn: p.expiresOn, reason: p.expiryReason },
     ...(await signatureView(p, weighings, makeUps, viewerId)),
@@ -772,6 +757,7 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
   if (input.applyTemperatureCorrection && !solvent.expansionCoefficientPerK) {
     throw AppError.validation(`${solvent.name} has no expansion coefficient recorded`, { applyTemperatureCorrection: `${solvent.name} has no expansion coefficient recorded, so the concentration cannot be corrected to 20 °C` });
   }
+  await assertFlaskFree(flask, 'flaskIdentifier', today, { exceptPreparationId: prep.id }); // one flask, one open solution
   const previous = await MakeUp.findOne({ where: { preparationId: prep.id }, order: [['id', 'DESC']] });
   if (previous && !input.correctionReason) {
     throw AppError.validation(`A make-up is already recorded for ${prep.identifier}`, { correctionReason: 'A make-up is already recorded: give the reason for recording a new one' });
@@ -785,6 +771,7 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
       await prep.reload({ transaction });
       if (prep.version !== amendment.fromVersion) throw AppError.conflict(`${prep.identifier} changed meanwhile (now version ${prep.version}); reload it and try again`);
     }
+    await assertFlaskFree(flask, 'flaskIdentifier', today, { exceptPreparationId: prep.id, transaction }); // again under the write lock
     const m = await MakeUp.create(
       {
         preparationId: prep.id,

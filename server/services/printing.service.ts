@@ -23,7 +23,7 @@ import { dataMatrixPng, qrPng, recordCode } from '../pdf/barcodes.ts';
 import { labDay } from '../pdf/format.ts';
 import { isVerified } from '../pdf/prep-sheet.tsx';
 import { renderLabels, renderPrepSheet } from '../pdf/render.ts';
-import { recordAudit, recordTrail } from './audit.service.ts';
+import { preparationTrail, recordAudit } from './audit.service.ts';
 import { getLabelTemplate, templateSnapshot } from './label-templates.service.ts';
 import { getPreparation } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
@@ -44,14 +44,12 @@ const signaturesOf = (d: PreparationDetail): Signature[] => (Array.isArray(d.sig
 
 // ------------------------------------------------------------------ prep sheet
 
-/** The record-level trail: the preparation, its weighings and its make-ups, oldest first. */
+/**
+ * The record-level trail, oldest first: the preparation and every weighing, make-up, aliquot and gravimetric
+ * reading recorded for it (audit.preparationTrail, as the record page shows it).
+ */
 async function recordLevelTrail(d: PreparationDetail): Promise<AuditEntryDto[]> {
-  const parts = await Promise.all([
-    recordTrail('preparation', String(d.id)),
-    ...d.weighings.map((w) => recordTrail('weighing', String(w.id))),
-    ...[...d.makeUpHistory, ...(d.makeUp ? [d.makeUp] : [])].map((m) => recordTrail('make_up', String(m.id))),
-  ]);
-  return parts.flat().sort((a, b) => a.id - b.id);
+  return preparationTrail(String(d.id));
 }
 
 /**

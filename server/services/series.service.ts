@@ -24,6 +24,7 @@ import { renderSeriesSheet } from '../pdf/series-sheet.tsx';
 import { recordAudit } from './audit.service.ts';
 import { SERIES_ID_RE } from '../../shared/prep/identifiers.ts';
 import { hazardsFor } from './preparation-hazards.ts';
+import { mergeHazards } from '../../shared/prep/cautions.ts';
 import { getPreparation, labDate, type Actor } from './preparations.service.ts';
 import { getSettings } from './settings.service.ts';
 
@@ -166,7 +167,8 @@ async function detailOf(s: Series): Promise<SeriesDetail> {
     createdBy: { id: s.createdBy, fullName: creator?.fullName ?? `user ${s.createdBy}` },
     createdAt: s.createdAt,
     levels: details.map((d, i) => levelOf(d, i + 1)),
-    hazards: m ? hazardsFor(m) : { pictograms: [], statements: [], cautions: [] },
+    // pipetting the parent's solution: the levels' cautions (their solvents and the parent's matrix), each once
+    hazards: mergeHazards(details.map((d) => d.hazards)) ?? hazardsFor(m ?? { ghsHazardStatements: [], ghsPictograms: [] }, 'pipette_solution'),
   };
   const notes = details[0]?.notes;
   if (notes) detail.notes = notes;

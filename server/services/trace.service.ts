@@ -655,11 +655,11 @@ async function directUses(r: Resolved, timeZone: string, range: { from: string |
   }
 }
 
-function subjectNode(g: Graph, r: Resolved): string {
+function subjectNode(g: Graph, r: Resolved, timeZone: string): string {
   if (r.preparation) return preparationNode(g, r.preparation);
   const s = r.subject;
   const status = r.balance
-    ? balanceStatusOn(balanceFields(r.balance), new Date().toISOString().slice(0, 10))
+    ? balanceStatusOn(balanceFields(r.balance), labDate(new Date(), timeZone)) // today on the lab's calendar
     : r.ware
       ? wareStatus({ status: r.ware.status, class: r.ware.wareClass })
       : plainStatus((r.material ?? r.solvent)?.status);
@@ -670,7 +670,7 @@ function subjectNode(g: Graph, r: Resolved): string {
 
 async function forwardOf(r: Resolved, range: { from: string | null; to: string | null }, timeZone: string): Promise<ForwardResult> {
   const g = new Graph();
-  const root = subjectNode(g, r);
+  const root = subjectNode(g, r, timeZone);
   const inRange = (at: string) => {
     const d = labDate(new Date(at), timeZone);
     return (!range.from || d >= range.from) && (!range.to || d <= range.to);

@@ -22,7 +22,7 @@ const textFilter = (max: number) =>
 
 const emptyToUndefined = (v: unknown) => (v === '' || v === null ? undefined : v);
 
-/** Filters for GET /api/audit and /api/audit/export.csv. `from`/`to` are whole UTC days, both included. */
+/** Filters for GET /api/audit and /api/audit/export.csv. `from`/`to` are lab days (the lab's time zone), both included. */
 export const auditFilterSchema = z
   .object({
     entity: textFilter(64),

@@ -96,6 +96,8 @@ export const volumetricWareSchema = z.object({
   toleranceMl: optDec,
   material: z.string().nullable(),
   status: z.enum(WARE_STATUSES),
+  /** lists only, flasks: the identifier of the open preparation whose solution the flask still holds */
+  holds: z.string().nullable().optional(),
   retiredAt: z.string().nullable(),
   retiredReason: z.string().nullable(),
   createdAt: z.string(),

@@ -1,4 +1,5 @@
 import type { MatrixWarning } from '../prep/matrix.ts';
+import type { TaskHazards } from '../prep/cautions.ts';
 /**
  * Standards made from standards: dilutions of a verified parent, calibration series, and the lineage section
  * of a preparation's detail (REQUIREMENTS TR-04, TR-11, EX-01; METROLOGY §5.5).
@@ -242,8 +243,8 @@ export interface SeriesDetail extends Omit<SeriesDto, 'parent' | 'levels'> {
     material: { name: string; lot: string; producer: string; certificateNumber: string | null; expiresOn: string | null };
   };
   levels: SeriesLevelDetail[];
-  /** cautions for the analyte's reference material (server/services/preparation-hazards.ts) */
-  hazards: { pictograms: string[]; statements: string[]; cautions: string[] };
+  /** cautions for pipetting the parent's solution, its matrix and the levels' solvents (shared/prep/cautions.ts) */
+  hazards: TaskHazards;
   notes?: string;
 }
 

@@ -18,6 +18,7 @@ import { CONCENTRATION_UNITS, VOLUME_UNITS, isConcentrationUnit, isVolumeUnit } 
 import type { CalcPreparationResponse } from '../calc/preparation.ts';
 import type { GateCode, GateSeverity, GateSuggestion } from '../prep/gates.ts';
 import type { PlanGate, PlanGateCode } from '../prep/plan-gates.ts';
+import type { TaskHazards } from '../prep/cautions.ts';
 import type { Balance, ReferenceMaterial, VolumetricWare } from './inventory.ts';
 import { DECIMAL_TEXT } from './decimal-text.ts';
 import type { ExpirySection } from './expiry.ts';
@@ -403,11 +404,8 @@ export interface PreparationPlan {
   expectedUncertainty: ExpectedUncertainty;
 }
 
-export interface Hazards {
-  pictograms: string[];
-  statements: string[];
-  cautions: string[];
-}
+/** The cautions of a record for its task (shared/prep/cautions.ts). */
+export type Hazards = TaskHazards;
 
 export interface StatusEvent {
   status: string;

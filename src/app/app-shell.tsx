@@ -7,6 +7,20 @@ import { useSignOutEverywhere } from '../features/auth/api/account.ts';
 import type { Role } from '../features/auth/types.ts';
 import { roleLabel } from '../lib/format.ts';
 import { ScanBox } from '../features/scan/scan-box.tsx';
+import { useQuery } from '@tanstack/react-query';
+import { settingsQueries } from '../features/calculate/api/settings-queries.ts';
+import { zoneNote } from '../../shared/prep/lab-time.ts';
+
+/** The date convention and the lab's time zone, stated once per page (every date and time on it is in that zone). */
+function ZoneNote() {
+  const tz = useQuery(settingsQueries.detail()).data?.timeZone;
+  if (!tz) return null;
+  return (
+    <p className="mt-8 border-t border-line pt-3 text-sm text-ink-soft" data-testid="zone-note">
+      {zoneNote(tz)}
+    </p>
+  );
+}
 
 type NavItem = { to: string; label: string; roles?: readonly Role[]; end?: boolean; testId: string; group?: string };
 
@@ -190,6 +204,7 @@ export function AppShell() {
           </div>
         </div>
         <Outlet />
+        <ZoneNote />
       </main>
     </div>
   );

@@ -39,7 +39,7 @@ function mixDetail(stage: 'one-aliquot' | 'done'): PreparationDetail {
     analyteFormula: 'Pb+Cd',
     materialName: 'Mix: Lead(II) nitrate + Cadmium metal (granules)',
     snapshot: { material: { name: 'Mix: Lead(II) nitrate + Cadmium metal (granules)', lot: 'NRM-24-0931 + NRM-23-0072' }, flask: { identifier: 'VF-100-02', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10' } },
-    hazards: { cautions: ['May cause cancer: handle in a fume hood'], statements: ['H350'], pictograms: ['GHS08'] },
+    hazards: { task: 'Pipetting a solution of the standard, then making up to the mark', cautions: ['May cause cancer: handle in a fume hood'], solvents: [{ name: 'Nitric acid 2 % (v/v)', hazards: 'corrosive, oxidising', pictograms: ['GHS03', 'GHS05'], cautions: [] }], sdsNote: 'Follow the SDS, local regulations and the laboratory’s own procedures.', statements: ['H350'], pictograms: ['GHS08'] },
     concentrationDisplay: done ? 'Pb 10.00 ± 0.07 mg/L; Cd 19.98 ± 0.09 mg/L (k = 2)' : undefined,
     ...(done ? { makeUp: { id: 9, flask: { identifier: 'VF-100-02' }, solvent: { name: 'Nitric acid 2 % (v/v)', lot: 'HNO3-2-26-1130' }, solutionTemperatureC: '20.0', recordedBy: { fullName: 'Tomas Reyes' }, recordedAt: '2026-12-02T09:10:00Z' } } : {}),
     mix: {
@@ -115,7 +115,10 @@ describe('the mix bench', () => {
     expect(html).toContain('Planned: BP-2-01');
     expect(html).toContain('data-testid="make-up-wait"');
     expect(html).toContain('May cause cancer');
-    expect(html).toContain('Never pipette by mouth');
+    // the task, the solvent's own hazards and the SDS line once, as the server gives them (shared/prep/cautions.ts)
+    expect(html).toContain('Pipetting a solution of the standard');
+    expect(html).toMatch(/Nitric acid 2 % \(v\/v\)<\/span>: corrosive, oxidising/);
+    expect(html.split('Follow the SDS, local regulations').length - 1).toBe(1);
   });
 
   it('when every aliquot and the make-up are recorded: each analyte recomputed, superseded aliquot shown struck through, next step to sign', () => {

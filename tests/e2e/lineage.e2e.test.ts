@@ -128,7 +128,9 @@ describe('working standards and trace', () => {
     const target = new D(conc.value).div(10).toSignificantDigits(3).toString();
     await page.fill('[data-testid="dilute-target"]', target);
     await pick('[data-testid="dilute-pipette"]', 'BP-10-01');
-    await pick('[data-testid="dilute-flask"]', 'VF-100-01');
+    // VF-100-01 still holds the Pb stock: the picker marks it occupied and offers it disabled (one flask, one open solution)
+    expect(await page.$eval('[data-testid="dilute-flask"]', (el) => [...(el as HTMLSelectElement).options].filter((o) => o.text.startsWith('VF-100-01')).map((o) => ({ disabled: o.disabled, text: o.text }))[0])).toMatchObject({ disabled: true, text: expect.stringContaining(`still holds ${pbStock}`) });
+    await pick('[data-testid="dilute-flask"]', 'VF-100-02');
     const shown = ((await page.textContent('[data-testid="dilute-expected"]')) ?? '').trim();
     // METROLOGY §5.5 volumetric dilution with ISO 648 / ISO 1042 class A tolerances as triangular a/√6 (§4.4):
     // the server's dilution core gives the same rounded result the page shows.

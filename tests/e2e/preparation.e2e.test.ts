@@ -63,7 +63,7 @@ describe('preparation journey', () => {
       expect(await page.inputValue('[name="analyteFormula"]')).toBe('Pb'); // the material's first analyte
       await page.fill('[name="target.value"]', '1000');
       await page.selectOption('[name="target.unit"]', 'mg/L');
-      const flaskValue = await optionValue(page, '[name="flaskId"]', 'VF-100-');
+      const flaskValue = await optionValue(page, '[name="flaskId"]', 'VF-100-02'); // VF-100-01 still holds the demo Pb stock (marked occupied)
       await page.selectOption('[name="flaskId"]', flaskValue);
       const flaskIdentifier = (await optionLabel(page, '[name="flaskId"]', flaskValue)).split(' ')[0]!;
       await page.fill('[name="conditions.temperatureC"]', '21.0');

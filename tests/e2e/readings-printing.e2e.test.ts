@@ -69,7 +69,7 @@ describe('impossible readings, results outside the plan, and prints', () => {
       const materials = await call(page, 'GET', '/api/materials?usable=1&pageSize=200');
       const pb = materials.body.items.find((m: any) => m.formula === 'Pb(NO3)2' && m.status === 'accepted');
       const bal = (await call(page, 'GET', '/api/balances?usable=1')).body.items.find((b: any) => b.identifier === 'BAL-SM1');
-      const flask = (await call(page, 'GET', '/api/volumetric-ware?kind=volumetric_flask&usable=1')).body.items.find((w: any) => w.status === 'in_service' && Number(w.nominalVolumeMl) === 100);
+      const flask = (await call(page, 'GET', '/api/volumetric-ware?kind=volumetric_flask&usable=1')).body.items.find((w: any) => w.status === 'in_service' && Number(w.nominalVolumeMl) === 100 && !w.holds); // a flask holding no open solution
       const water = (await call(page, 'GET', '/api/solvents')).body.items.find((s: any) => s.name === 'Ultrapure water');
       expect(pb && bal && flask && water, 'demo lab has Pb(NO3)2, BAL-SM1, a 100 mL flask and ultrapure water').toBeTruthy();
       expect(bal.capacityG).toBe('82');

@@ -69,7 +69,7 @@ async function makeCompletePreparation(page: Page): Promise<string> {
   const balances = await call(page, 'GET', '/api/balances?usable=1');
   const bal = balances.body.items.find((b: any) => b.identifier === 'BAL-SM1');
   const ware = await call(page, 'GET', '/api/volumetric-ware?kind=volumetric_flask&usable=1');
-  const flask = ware.body.items.find((w: any) => w.status === 'in_service' && new D(w.nominalVolumeMl).eq(100));
+  const flask = ware.body.items.find((w: any) => w.status === 'in_service' && new D(w.nominalVolumeMl).eq(100) && !w.holds); // a flask holding no open solution
   const solvents = await call(page, 'GET', '/api/solvents');
   const water = solvents.body.items.find((s: any) => s.name === 'Ultrapure water');
   expect(pb && bal && flask && water, 'demo lab has Pb(NO3)2, BAL-SM1, a 100 mL flask and ultrapure water').toBeTruthy();

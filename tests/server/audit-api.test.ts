@@ -5,6 +5,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry, User } from '../../server/db/models/index.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, userIdByEmail, type TestApp } from './helpers/test-app.ts';
+import { labDate } from '../../shared/prep/lab-time.ts';
 
 let t: TestApp;
 let admin: string;
@@ -227,8 +228,8 @@ describe('GET /api/audit', () => {
     expect(pct.body.items.every((e: object) => JSON.stringify(e).includes('%'))).toBe(true);
   });
 
-  it('when filtered by dates, then from/to are whole UTC days, both included', async () => {
-    const today = new Date().toISOString().slice(0, 10);
+  it('when filtered by dates, then from/to are lab days (the lab’s zone, Europe/London in the tests), both included', async () => {
+    const today = labDate(new Date(), 'Europe/London'); // the boundaries themselves: tests/shared/prep/lab-time.test.ts
     const all = await request(t.app).get(`/api/audit?from=${today}&to=${today}`).set('Cookie', qa);
     expect(all.body.total).toBe(await AuditEntry.count());
     const past = await request(t.app).get('/api/audit?from=2001-01-01&to=2001-12-31').set('Cookie', qa);

@@ -5,6 +5,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { Preparation } from '../../server/db/models/index.ts';
 import { DEMO, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 let t: TestApp;
 let cookie: string;
@@ -46,7 +47,7 @@ describe('solvent against the parent matrix', () => {
     const m = await request(t.app)
       .post(`/api/preparations/${d.identifier}/make-up`)
       .set('Cookie', tech)
-      .send({ flaskIdentifier: 'VF-100-02', solventId: solvent['Methanol']!.id, solventLot: solvent['Methanol']!.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+      .send({ flaskIdentifier: (await freeFlask(t.app, await sessionCookie(t.app, DEMO.chemist))).identifier, solventId: solvent['Methanol']!.id, solventLot: solvent['Methanol']!.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     expect(m.body.dilution.matrixWarning).toMatchObject({ parentSolvent: 'Nitric acid 2 % (v/v)', solvent: 'Methanol' });
     const same = await plan('Nitric acid 2 % (v/v)');

@@ -17,6 +17,7 @@ import { rectangular, triangular } from '../../shared/calc/index.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { expectClose } from '../helpers/decimal.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 let t: TestApp;
@@ -46,7 +47,7 @@ async function verifiedParent() {
   expect(p.status, JSON.stringify(p.body)).toBe(201);
   expect((await send('chemist', 'post', `/api/preparations/${p.body.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS })).status).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  const m = await send('chemist', 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send('chemist', 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   await Preparation.sequelize!.query(
     "UPDATE preparations SET result = json_set(result, '$.concentration.value', '1000.45', '$.concentration.standardUncertainty', '0.5') WHERE id = :id",
@@ -82,7 +83,7 @@ describe('the dilution result is stored at write time', () => {
     expect(a.body.dilution.result).toBeUndefined(); // no make-up yet
     expect(await storedColumn(d.body.id)).toBeNull();
     const water = ids.solvent['Ultrapure water']!;
-    const m = await send('technician', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+    const m = await send('technician', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     const result = m.body.dilution.result;
 

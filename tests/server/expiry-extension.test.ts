@@ -15,6 +15,7 @@ import { EXPIRY_EXTENSION_MEANING_TEXT } from '../../shared/schemas/expiry.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { demoDay } from '../../seed/demo-clock.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 const PEOPLE = ['chemist', 'chemist2', 'technician', 'qa', 'admin'] as const;
@@ -58,7 +59,7 @@ async function stock() {
   const w = await send('chemist', 'post', `/api/preparations/${p.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS });
   expect(w.status, JSON.stringify(w.body)).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  const m = await send('chemist', 'post', `/api/preparations/${p.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send('chemist', 'post', `/api/preparations/${p.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body as { id: number; identifier: string; expiresOn: string; weighings: Array<{ id: number }> };
 }
@@ -112,7 +113,7 @@ beforeAll(async () => {
   expect(d.status, JSON.stringify(d.body)).toBe(201);
   expect((await send('chemist', 'post', `/api/preparations/${d.body.identifier}/aliquots`, { pipetteIdentifier: 'BP-1-01' })).status).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  const m = await send('chemist', 'post', `/api/preparations/${d.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send('chemist', 'post', `/api/preparations/${d.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   dilution = m.body;
   for (const p of Object.values(made)) expect(p.expiresOn < TODAY).toBe(true);

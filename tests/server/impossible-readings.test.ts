@@ -13,6 +13,7 @@ import { AuditEntry, GravimetricReading, Weighing } from '../../server/db/models
 import { OUT_OF_PLAN_CHECK_KEY, VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { PREVIEW_MARK } from '../../shared/schemas/printing.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'chemist' | 'chemist2' | 'technician';
 let t: TestApp;
@@ -44,7 +45,7 @@ async function planStock(): Promise<string> {
 const weigh = (key: string, body: Record<string, unknown>) => send('chemist', 'post', `/api/preparations/${key}/weighings`, { mode: 'direct', unit: 'mg', conditions: CONDITIONS, ...body });
 async function makeUp(key: string) {
   const water = ids.solvent['Ultrapure water']!;
-  const m = await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body;
 }

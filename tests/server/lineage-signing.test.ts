@@ -7,6 +7,7 @@ import { Preparation } from '../../server/db/models/index.ts';
 import { currentRecordHash } from '../../server/services/signatures.service.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 let t: TestApp;
@@ -34,7 +35,7 @@ async function stock(who: Who = 'chemist') {
   const w = await send(who, 'post', `/api/preparations/${p.body.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS });
   expect(w.status, JSON.stringify(w.body)).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  const m = await send(who, 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send(who, 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body as { id: number; identifier: string; expiresOn: string; result: { concentration: { value: string; unit: string; standardUncertainty: string } } };
 }
@@ -61,7 +62,8 @@ const CHECKLIST = Object.fromEntries(VERIFICATION_CHECKLIST.map((c) => [c.key, t
 const signAs = (who: Who, key: string, meaning: 'prepared' | 'verified') =>
   send(who, 'post', `/api/preparations/${key}/signatures`, { meaning, password: DEMO_PASSWORD, acknowledgeResponsibility: true, ...(meaning === 'verified' ? { checklist: CHECKLIST } : {}) });
 
-async function benchWork(key: string, aliquotBy: Who, makeUpBy: Who, pipetteIdentifier = 'BP-1-01', flaskIdentifier = 'VF-100-02') {
+async function benchWork(key: string, aliquotBy: Who, makeUpBy: Who, pipetteIdentifier = 'BP-1-01', flask?: string) {
+  const flaskIdentifier = flask ?? (await freeFlask(t.app, cookie.chemist!)).identifier; // one flask, one open solution
   const a = await send(aliquotBy, 'post', `/api/preparations/${key}/aliquots`, { pipetteIdentifier });
   expect(a.status, JSON.stringify(a.body)).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
@@ -141,7 +143,7 @@ describe('signing a volumetric dilution', () => {
   it('a dilution without an aliquot is refused "prepared" with 409', async () => {
     const d = (await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody())).body;
     const water = ids.solvent['Ultrapure water']!;
-    const m = await send('chemist', 'post', `/api/preparations/${d.identifier}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+    const m = await send('chemist', 'post', `/api/preparations/${d.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     const res = await signAs('chemist', d.identifier, 'prepared');
     expect(res.status, JSON.stringify(res.body)).toBe(409);

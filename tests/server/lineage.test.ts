@@ -2,6 +2,7 @@
 // the dilution result with the parent as a budget input (METROLOGY §5.5), expiry capped by the stability rule,
 // the reference material and the parent (REQUIREMENTS EX-01, EX-02), calibration series, and route × role.
 import request from 'supertest';
+import { PDFParse } from 'pdf-parse';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { AuditEntry, Preparation } from '../../server/db/models/index.ts';
 import { D, rectangular, triangular } from '../../shared/calc/index.ts';
@@ -9,6 +10,7 @@ import { addDays } from '../../shared/prep/dates.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { expectClose } from '../helpers/decimal.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 let t: TestApp;
@@ -36,7 +38,7 @@ async function stock(who: Who = 'chemist') {
   const w = await send(who, 'post', `/api/preparations/${p.body.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS });
   expect(w.status, JSON.stringify(w.body)).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  const m = await send(who, 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send(who, 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body as { id: number; identifier: string; expiresOn: string; result: { concentration: { value: string; unit: string; standardUncertainty: string } } };
 }
@@ -132,17 +134,38 @@ describe('POST /api/preparations/:key/dilutions', () => {
     const again = await send('technician', 'post', `/api/preparations/${d.identifier}/aliquots`, { pipetteIdentifier: 'BP-1-01' });
     expect(again.status).toBe(409);
     const water = ids.solvent['Ultrapure water']!;
-    const m = await send('technician', 'post', `/api/preparations/${d.identifier}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+    const m = await send('technician', 'post', `/api/preparations/${d.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     const r = m.body.dilution.result;
     expectClose(r.value, new D(parent.result.concentration.value).div(100), '1e-15'); // c2 = c1·Vp/Vf [METROLOGY §5.5]
     expect(r.basedOn).toEqual({ aliquotId: a.body.dilution.aliquots[0].id, makeUpId: m.body.makeUp.id });
     expect(r.display).toMatch(/^10\.0\d0 ± 0\.0\d\d mg\/L \(k = 2\)$/);
-    // the make-up keeps the parent cap on the expiry (EX-01)
+    // cautions for pipetting a solution, not weighing a dust (issue 16 §4; shared/prep/cautions.ts)
+    expect(m.body.hazards.task).toMatch(/^Pipetting a solution/);
+    expect(m.body.hazards.cautions.some((c: string) => /dust/.test(c))).toBe(false);
+    expect(m.body.hazards.cautions).toContain('Never pipette by mouth: use a pipette filler or the piston pipette, and wear gloves and eye protection');
+        // the make-up keeps the parent cap on the expiry (EX-01)
     expect(m.body.expiry.expiresOn <= parent.expiresOn).toBe(true);
     const w = await send('chemist', 'post', `/api/preparations/${d.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS });
     expect(w.status).toBe(409);
     expect(w.body.error.code).toBe('not_weighable');
+    // the record's trail (page and prep sheet) holds the aliquot and the make-up entries (issue 16 §4)
+    const trail = (await send('chemist', 'get', `/api/audit/records/preparation/${d.id}`)).body.items as Array<{ entity: string }>;
+    expect(trail.map((e) => e.entity)).toEqual(expect.arrayContaining(['preparation', 'aliquot', 'make_up']));
+    const sheet = await send('chemist', 'get', `/api/preparations/${d.identifier}/prep-sheet.pdf?preview=1`)
+      .buffer(true)
+      .parse((r, cb) => {
+        const chunks: Buffer[] = [];
+        r.on('data', (c: Buffer) => chunks.push(c));
+        r.on('end', () => cb(null, Buffer.concat(chunks)));
+      });
+    expect(sheet.status).toBe(200);
+    const parser = new PDFParse({ data: new Uint8Array(sheet.body as Buffer) });
+    const text = (await parser.getText()).text.replace(/\s+/g, ' ');
+    await parser.destroy();
+    expect(text).toContain(`${trail.length} audit entries for this record`);
+    expect(text).toMatch(/\(aliquot \d+\)/);
+    expect(text).toMatch(/\(make_up \d+\)/);
     // a correction names the aliquot it supersedes and keeps the old one visible
     const fix = await send('chemist', 'post', `/api/preparations/${d.identifier}/aliquots`, { pipetteIdentifier: 'BP-1-01', supersedesId: a.body.dilution.aliquots[0].id, correctionReason: 'tip touched the flask neck' });
     expect(fix.status, JSON.stringify(fix.body)).toBe(201);
@@ -265,7 +288,7 @@ describe('calibration series', () => {
   });
 
   it('the chemist can change a level; a level the ware cannot reach refuses the whole series at its field', async () => {
-    const res = await send('chemist', 'post', '/api/series', { parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-01'] }, { target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-5-01'], flaskId: ids.ware['VF-100-01'] }] });
+    const res = await send('chemist', 'post', '/api/series', { parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] }, { target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-5-01'], flaskId: ids.ware['VF-100-02'] }] });
     expect(res.status).toBe(422);
     expect(Object.keys(res.body.error.fields)).toEqual(['levels.1.target']);
   });
@@ -274,7 +297,8 @@ describe('calibration series', () => {
     const prop = await send('chemist', 'post', '/api/series/proposal', { parentKey: parent.identifier, levels: [{ value: '10', unit: 'mg/L' }, { value: '20', unit: 'mg/L' }, { value: '50', unit: 'mg/L' }] });
     expect(prop.status, JSON.stringify(prop.body)).toBe(200);
     const offered = prop.body.levels.flatMap((l: any) => [l.choice, ...l.alternatives].filter(Boolean).map((c: any) => c.flask.identifier));
-    expect(offered).not.toContain('VF-100-01'); // the parent was made up in VF-100-01 and is not discarded
+    expect(offered).not.toContain((parent as any).makeUp.flask.identifier); // the parent is still in its flask
+    expect(offered).not.toContain('VF-100-01'); // the demo Pb stock is still in VF-100-01
     const chosen = prop.body.levels.map((l: any) => l.choice?.flask.identifier).filter(Boolean);
     expect(chosen.length).toBeGreaterThan(1);
     expect(new Set(chosen).size).toBe(chosen.length);
@@ -291,6 +315,43 @@ describe('calibration series', () => {
     expect(res.body.error.fields['levels.1.flaskId']).toMatch(/VF-100-02 is already the flask of level 1/);
   });
 
+  it('one flask, one open solution: a flask holding an open record is refused at make-up and for a new dilution or series level (409 at the field, naming the record), marked in the list, and free again once that record is discarded', async () => {
+    const held = (parent as any).makeUp.flask as { identifier: string };
+    const heldId = (await send('chemist', 'get', '/api/volumetric-ware?kind=volumetric_flask&pageSize=200')).body.items.find((w: any) => w.identifier === held.identifier);
+    expect(heldId.holds).toBe(parent.identifier);
+    // a new dilution into it
+    const dil = await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody({ flaskId: heldId.id }));
+    expect(dil.status, JSON.stringify(dil.body)).toBe(409);
+    expectErrorBody(dil.body, 'flask_occupied');
+    expect(dil.body.error.fields.flaskId).toMatch(new RegExp(`^${held.identifier} still holds ${parent.identifier}`));
+    // a series level into it
+    const ser = await send('chemist', 'post', '/api/series', { parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] }, { target: { value: '20', unit: 'mg/L' }, pipetteId: ids.ware['BP-2-01'], flaskId: heldId.id }] });
+    expect(ser.status).toBe(409);
+    expect(Object.keys(ser.body.error.fields)).toEqual(['levels.1.flaskId']);
+    // the make-up of a planned dilution scanned into it
+    const d = (await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody())).body;
+    expect((await send('technician', 'post', `/api/preparations/${d.identifier}/aliquots`, { pipetteIdentifier: 'BP-1-01' })).status).toBe(201);
+    const water = ids.solvent['Ultrapure water']!;
+    const before = await AuditEntry.count();
+    const mu = await send('technician', 'post', `/api/preparations/${d.identifier}/make-up`, { flaskIdentifier: held.identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+    expect(mu.status).toBe(409);
+    expect(mu.body.error.fields.flaskIdentifier).toMatch(new RegExp(`^${held.identifier} still holds ${parent.identifier}`));
+    expect(await AuditEntry.count()).toBe(before); // nothing stored
+    // the demo Pb stock holds VF-100-01 (seed): the same rule
+    const vf1 = await send('chemist', 'post', `/api/preparations/${parent.identifier}/dilutions`, dilutionBody({ flaskId: ids.ware['VF-100-01'] }));
+    expect(vf1.status).toBe(409);
+    expect(vf1.body.error.message).toMatch(/^VF-100-01 still holds HWL-\d{4}-\d{4}/);
+  });
+
+  it('a discarded record frees its flask', async () => {
+    const s = await stock();
+    const flask = (s as any).makeUp.flask.identifier as string;
+    const disc = await send('qa', 'post', `/api/preparations/${s.identifier}/signatures`, { meaning: 'discarded', password: DEMO_PASSWORD, acknowledgeResponsibility: true, reason: 'spilled while mixing' });
+    expect(disc.status, JSON.stringify(disc.body)).toBe(201);
+    const w = (await send('chemist', 'get', '/api/volumetric-ware?kind=volumetric_flask&pageSize=200')).body.items.find((x: any) => x.identifier === flask);
+    expect(w.holds).toBeNull();
+  });
+
   it('unknown series → 404; an unverified parent → 422', async () => {
     expect((await send('chemist', 'get', '/api/series/HWL-2026-S999')).status).toBe(404);
     const planned = await stock();
@@ -305,7 +366,7 @@ describe('route × role (REQUIREMENTS AC-02)', () => {
   const routes: Array<{ method: 'get' | 'post'; path: () => string; allowed: Who[] | 'signedIn'; ok: number; body?: () => unknown }> = [
     { method: 'post', path: () => `/api/preparations/${parent.identifier}/dilutions`, allowed: ['chemist'], ok: 201, body: () => dilutionBody() },
     { method: 'post', path: () => '/api/series/proposal', allowed: ['chemist'], ok: 200, body: () => ({ parentKey: parent.identifier, levels: [{ value: '10', unit: 'mg/L' }] }) },
-    { method: 'post', path: () => '/api/series', allowed: ['chemist'], ok: 201, body: () => ({ parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-01'] }] }) },
+    { method: 'post', path: () => '/api/series', allowed: ['chemist'], ok: 201, body: () => ({ parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] }] }) },
   ];
   it.each(routes.flatMap((r) => WHO.map((who) => [r, who] as const)))('%#', async (r, who) => {
     const res = await send(who, r.method, r.path(), r.body?.());
@@ -322,7 +383,7 @@ describe('route × role (REQUIREMENTS AC-02)', () => {
   });
 
   it('GET /api/series/:key: every signed-in role 200, signed out 401', async () => {
-    const s = (await send('chemist', 'post', '/api/series', { parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-01'] }] })).body.series;
+    const s = (await send('chemist', 'post', '/api/series', { parentKey: parent.identifier, levels: [{ target: { value: '10', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] }] })).body.series;
     for (const who of WHO) expect((await send(who, 'get', `/api/series/${s.identifier}`)).status, who).toBe(who === 'signedOut' ? 401 : 200);
   });
 });

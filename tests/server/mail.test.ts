@@ -12,6 +12,7 @@ import { createMailer, type MailTransport, type Mailer, type OutgoingMail } from
 import { returnedMail } from '../../server/mail/templates.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 const PUBLIC_URL = 'http://tarebook.harbourside.example:8080';
 let t: TestApp;
@@ -38,7 +39,7 @@ async function completeRecord(a: Express = app) {
   });
   expect(p.status, JSON.stringify(p.body)).toBe(201);
   expect((await as('chemist', a).post(`/api/preparations/${p.body.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS })).status).toBe(201);
-  const m = await as('chemist', a).post(`/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: ids.water.id, solventLot: ids.water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await as('chemist', a).post(`/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(app, cookie.chemist!)).identifier, solventId: ids.water.id, solventLot: ids.water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body as { id: number; identifier: string };
 }

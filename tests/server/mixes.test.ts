@@ -14,6 +14,7 @@ import { addDays } from '../../shared/prep/dates.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { expectClose } from '../helpers/decimal.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 let t: TestApp;
@@ -49,7 +50,7 @@ async function stock(formula: string, analyte: string, solvent: string): Promise
   const w = await send('chemist', 'post', `/api/preparations/${p.body.identifier}/weighings`, { mode: 'direct', reading, unit: 'mg', conditions: CONDITIONS });
   expect(w.status, JSON.stringify(w.body)).toBe(201);
   const s = ids.solvent[solvent]!;
-  const m = await send('chemist', 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: s.id, solventLot: s.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send('chemist', 'post', `/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: s.id, solventLot: s.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body as Stock;
 }
@@ -186,7 +187,7 @@ describe('POST /api/mixes', () => {
     expect(twice.body.error.fields['components.1.parentKey']).toMatch(/Pb.*once/);
 
     // 50 mL + 50 mL into a 100 mL flask leaves no room for the solvent
-    const full = await send('chemist', 'post', '/api/mixes', mixBody({ components: [{ parentKey: pb.identifier, pipetteId: ids.ware['BP-50-01'] }, { parentKey: cd.identifier, pipetteId: ids.ware['BP-50-01'] }], flaskId: ids.ware['VF-100-01'] }));
+    const full = await send('chemist', 'post', '/api/mixes', mixBody({ components: [{ parentKey: pb.identifier, pipetteId: ids.ware['BP-50-01'] }, { parentKey: cd.identifier, pipetteId: ids.ware['BP-50-01'] }], flaskId: ids.ware['VF-100-02'] }));
     expect(full.status, JSON.stringify(full.body)).toBe(400);
     expect(full.body.error.fields.flaskId).toMatch(/100 mL/);
 
@@ -253,7 +254,7 @@ describe('a mix at the bench, signed and verified', () => {
     expect(weigh.status).toBe(409);
 
     const nitric = ids.solvent['Nitric acid 2 % (v/v)']!;
-    const mu = await send('technician', 'post', `/api/preparations/${m.identifier}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: nitric.id, solventLot: nitric.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+    const mu = await send('technician', 'post', `/api/preparations/${m.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: nitric.id, solventLot: nitric.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(mu.status, JSON.stringify(mu.body)).toBe(201);
     const [rPb, rCd] = mu.body.mix.components.map((c: { result: any }) => c.result);
     expect(rPb.basedOn).toEqual({ aliquotId: pbAliquots[1].id, makeUpId: mu.body.makeUp.id });
@@ -315,7 +316,7 @@ describe('a mix at the bench, signed and verified', () => {
     for (const text of [`Pb (from ${pb.identifier})`, `Cd (from ${cd.identifier})`, 'Cd: planned aliquot Vp', 'Aliquots, one per analyte', rPb.display, rCd.display, 'Drained into the wrong flask', 'Purity per parent']) expect(pdf).toContain(text);
 
     // a verified mix is not a parent (a dilution takes one analyte): a clear 422
-    const asParent = await send('chemist', 'post', `/api/preparations/${m.identifier}/dilutions`, { method: 'volumetric', target: { value: '0.1', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-01'] });
+    const asParent = await send('chemist', 'post', `/api/preparations/${m.identifier}/dilutions`, { method: 'volumetric', target: { value: '0.1', unit: 'mg/L' }, pipetteId: ids.ware['BP-1-01'], flaskId: ids.ware['VF-100-02'] });
     expect(asParent.status).toBe(422);
     expect(asParent.body.error.fields.parent).toMatch(/mix/);
 
@@ -338,7 +339,7 @@ describe('a mix at the bench, signed and verified', () => {
     expect((await send('technician', 'post', `/api/preparations/${m.identifier}/aliquots`, { pipetteIdentifier: 'BP-1-01', componentId: cPb.linkId })).status).toBe(201);
     expect((await send('chemist2', 'post', `/api/preparations/${m.identifier}/aliquots`, { pipetteIdentifier: 'BP-2-01', componentId: cCd.linkId })).status).toBe(201);
     const water = ids.solvent['Ultrapure water']!;
-    expect((await send('technician', 'post', `/api/preparations/${m.identifier}/make-up`, { flaskIdentifier: 'VF-100-02', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
+    expect((await send('technician', 'post', `/api/preparations/${m.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
     expect((await signAs('chemist', m.identifier, 'prepared')).status).toBe(201);
     const byRecorder = await signAs('chemist2', m.identifier, 'verified');
     expect(byRecorder.status).toBe(403);

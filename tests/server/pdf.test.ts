@@ -17,6 +17,7 @@ import { PREVIEW_MARK, REPRINT_MARK, UNVERIFIED_MARK } from '../../shared/schema
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { dataMatrixOptions } from '../../server/pdf/barcodes.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 let t: TestApp;
 let work: string;
@@ -125,7 +126,7 @@ beforeAll(async () => {
     expect(p.status, JSON.stringify(p.body)).toBe(201);
     const w = await send(`/api/preparations/${p.body.identifier}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions });
     expect(w.status, JSON.stringify(w.body)).toBe(201);
-    const m = await send(`/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: ids.solvent.id, solventLot: ids.solvent.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+    const m = await send(`/api/preparations/${p.body.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: ids.solvent.id, solventLot: ids.solvent.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     return p.body.identifier as string;
   };
@@ -203,6 +204,10 @@ describe('prep sheet text (pdf-parse)', () => {
     expect(all).toContain('Purity (mass fraction)');
     expect(all).toContain(`Expires on ${d.expiry.expiresOn}`);
     for (const p of d.hazards.pictograms) expect(all).toContain(p);
+    // the cautions of the task, the solvent's own hazards named, the SDS line once (issue 16 §4)
+    expect(all).toContain(d.hazards.task);
+    for (const sv of d.hazards.solvents.filter((x: { hazards: string | null }) => x.hazards)) expect(all).toContain(`${sv.name}: ${sv.hazards}`);
+    expect(all.split(d.hazards.sdsNote).length - 1).toBe(1);
     expect(all).toContain('Audit summary');
     expect(all).toMatch(/\d+ audit entries for this record/);
     expect(all).toContain('No signatures yet');

@@ -6,6 +6,7 @@ import { evaluateFlaskGates, evaluateMaterialDensityGate } from '../../shared/pr
 import { netWeighingUncertainty } from '../../shared/prep/weighing-uncertainty.ts';
 import { readingInMg, volumeAsKnown } from '../../server/services/preparation-calc.ts';
 import { hazardsFor, STANDING_NOTE } from '../../server/services/preparation-hazards.ts';
+import { TASK_CAUTION } from '../../shared/prep/cautions.ts';
 import { labDate } from '../../server/services/preparations.service.ts';
 
 describe('netWeighingUncertainty (METROLOGY §5.2)', () => {
@@ -78,14 +79,15 @@ describe('plan gates for flasks and density (REQUIREMENTS EQ-07; METROLOGY §2.3
 });
 
 describe('hazards, readings, dates', () => {
-  it('when the material carries H360Df, then the reproductive-toxicity caution comes first and the standing note last', () => {
+  it('when the material carries H360Df, then the reproductive-toxicity caution comes first and the SDS line is stated once, apart', () => {
     const h = hazardsFor({ ghsHazardStatements: ['H302', 'H360Df'], ghsPictograms: ['GHS07', 'GHS08'] });
     expect(h.cautions[0]).toMatch(/^May damage fertility or the unborn child/);
-    expect(h.cautions.at(-1)).toBe(STANDING_NOTE);
+    expect(h.cautions).not.toContain(STANDING_NOTE);
+    expect(h.sdsNote).toBe(STANDING_NOTE);
   });
-  it('when no statements are recorded, then pictograms give the cautions; none at all leaves only the standing note', () => {
+  it('when no statements are recorded, then pictograms give the cautions; none at all leaves only the task caution', () => {
     expect(hazardsFor({ ghsHazardStatements: [], ghsPictograms: ['GHS06'] }).cautions[0]).toMatch(/toxic/i);
-    expect(hazardsFor({ ghsHazardStatements: [], ghsPictograms: [] }).cautions).toEqual([STANDING_NOTE]);
+    expect(hazardsFor({ ghsHazardStatements: [], ghsPictograms: [] }).cautions).toEqual([TASK_CAUTION.weigh_solid.text]);
   });
   it('when a reading is typed in g, then mg keeps the shown digits (0.16007 g = 160.07 mg; 12.3 g = 12300 mg)', () => {
     expect(readingInMg('0.16007', 'g')).toBe('160.07');

@@ -2,6 +2,7 @@
 // Sources of the check values are named beside each check (METROLOGY.md sections, QUAM A1, REQUIREMENTS rows).
 import { join } from 'node:path';
 import request from 'supertest';
+import { freeFlask } from './helpers/free-flask.ts';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { createApp } from '../../server/app.ts';
 import { migrateUp } from '../../server/db/migrate.ts';
@@ -46,8 +47,9 @@ async function plan(over: Record<string, unknown> = {}, who: Who = 'chemist') {
 
 const weighingBody = (over: Record<string, unknown> = {}) => ({ mode: 'direct', reading: '160.07', unit: 'mg', conditions: { temperatureC: '21', pressureHPa: '985', relativeHumidityPct: '45' }, ...over });
 const water = () => ids.solvent['Ultrapure water']!;
-const makeUpBody = (over: Record<string, unknown> = {}) => ({
-  flaskIdentifier: 'VF-100-01',
+/** A make-up in a flask that holds no open solution (VF-100-01 holds the demo Pb stock: one flask, one open solution). */
+const makeUpBody = async (over: Record<string, unknown> = {}) => ({
+  flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier,
   solventId: water().id,
   solventLot: water().lot,
   solutionTemperatureC: '20.0',
@@ -107,7 +109,7 @@ describe('routes × roles (REQUIREMENTS AC-02: roles checked on the server)', ()
       const p = await plan();
       const w = await send(who, 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
       expect(w.status, `weighing ${who}`).toBe(status);
-      const m = await send(who, 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+      const m = await send(who, 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
       expect(m.status, `make-up ${who}`).toBe(status);
       if (status === 201) expect(m.body.stage).toBe('complete');
     }
@@ -233,12 +235,14 @@ describe('plan numbers (METROLOGY §5.4 Pb(NO3)2 example)', () => {
     expect(p.conditionsUsed).toMatchObject({ source: 'lab-default', temperatureC: '20.0', pressureHPa: '1013', relativeHumidityPct: '50' });
   });
 
-  it('when planned, then the record carries hazards from the material (GHS08/H360 caution and the standing note), expiry and the plan event', async () => {
+  it('when planned, then the record carries hazards from the material for weighing the solid (GHS08/H360 caution, the SDS line apart), expiry and the plan event', async () => {
     const p = await plan({ notes: 'for the ICP calibration' });
     expect(p.identifier).toMatch(/^HWL-\d{4}-\d{4}$/);
     expect(p.stage).toBe('planned');
-    expect(p.hazards.cautions).toContain('May damage fertility or the unborn child: handle in a fume hood with gloves; follow the SDS and the lab’s procedures');
-    expect(p.hazards.cautions.at(-1)).toBe('Follow the SDS, local regulations and the laboratory’s own procedures.');
+    expect(p.hazards.cautions).toContain('May damage fertility or the unborn child: weigh the solid in a ventilated balance enclosure or fume hood, with gloves; do not breathe the dust');
+    expect(p.hazards.task).toMatch(/^Weighing the solid/);
+    expect(p.hazards.sdsNote).toBe('Follow the SDS, local regulations and the laboratory’s own procedures.');
+    expect(p.hazards.cautions).not.toContain(p.hazards.sdsNote);
     expect(p.statusHistory).toEqual([expect.objectContaining({ status: 'planned', by: expect.objectContaining({ fullName: 'Dr. Maren Tollefsen' }), note: 'for the ICP calibration' })]);
     expect(p.expiry.reason).toMatch(/stability period|reference material/);
     expect(p.plan.targetReading.value).toBe('159.91');
@@ -307,7 +311,7 @@ describe('weighings (REQUIREMENTS TR-08: original observations, verbatim, append
     const [old, next] = fixed.body.weighings;
     expect(old).toMatchObject({ id: firstId, reading: { value: '160.70' }, supersededById: next.id });
     expect(next).toMatchObject({ reading: { value: '160.07' }, supersedesId: firstId, correctionReason: 'transposed digits when typing' });
-    const made = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    const made = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     expect(made.body.result.basedOn.weighingId).toBe(next.id);
     const stale = await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody({ reading: '160.08', supersedesId: firstId, correctionReason: 'again' }));
     expect(stale.status).toBe(409);
@@ -318,7 +322,7 @@ describe('weighings (REQUIREMENTS TR-08: original observations, verbatim, append
   it('when the database is asked to UPDATE or DELETE a weighing or make-up, then the triggers refuse', async () => {
     const p = await plan();
     await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
-    await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     const refused = async (sql: string) => {
       try {
         await t.sequelize.query(sql);
@@ -342,7 +346,7 @@ describe('make-up and recomputation (REQUIREMENTS TR-09)', () => {
   it('when Pb(NO3)2 reads 160.07 mg into 100 mL, then c ≈ 1000.99 mg/L (METROLOGY §5.4) and the stored request reproduces the result with the core', async () => {
     const p = await plan();
     await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
-    const res = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    const res = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     const r = res.body.result;
     expect(r.calcVersion).toBe('tarebook-calc/1');
@@ -369,7 +373,7 @@ describe('make-up and recomputation (REQUIREMENTS TR-09)', () => {
     const p = await plan({ materialId: ids.material['Cd'], analyteFormula: 'Cd', conditions: { source: 'lab-default' } });
     const w = await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody({ reading: '100.28', conditions: { source: 'lab-default' } }));
     expect(w.status, JSON.stringify(w.body)).toBe(201);
-    const res = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    const res = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     const r = res.body.result;
     expect(Number(r.concentration.value)).toBeCloseTo(1002.7, 1); // QUAM A1: c = 1002.7 mg/L (buoyancy of Cd vs 8.0 g/mL weights is −1e-5)
     const temp = r.budget.find((b: any) => b.input === 'temperature');
@@ -380,9 +384,9 @@ describe('make-up and recomputation (REQUIREMENTS TR-09)', () => {
   it('when the temperature correction is applied (methanol β = 1.2e-3 at 25 °C), then c(20 °C) = c·[1 + β(t − 20)] = c·1.006 (METROLOGY §9)', async () => {
     const p = await plan();
     await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
-    const plain = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    const plain = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     const meoh = ids.solvent['Methanol']!;
-    const res = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ solventId: meoh.id, solventLot: meoh.lot, solutionTemperatureC: '25.0', applyTemperatureCorrection: true, correctionReason: 'made up again in methanol' }));
+    const res = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody({ solventId: meoh.id, solventLot: meoh.lot, solutionTemperatureC: '25.0', applyTemperatureCorrection: true, correctionReason: 'made up again in methanol' }));
     expect(res.status, JSON.stringify(res.body)).toBe(201);
     expect(res.body.result.temperatureCorrection).toEqual({ factor: '1.006', temperatureC: '25.0' }); // METROLOGY §9: 1 + 1.2e-3·5 = 1.006
     expect(Number(res.body.result.concentration.value) / Number(plain.body.result.concentration.value)).toBeCloseTo(1.006, 9);
@@ -392,21 +396,21 @@ describe('make-up and recomputation (REQUIREMENTS TR-09)', () => {
 
   it('when the make-up flask is wrong, the lot does not match, or a second make-up has no reason, then 400 with the field', async () => {
     const p = await plan();
-    const wrong = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ flaskIdentifier: 'VF-50-01' }));
+    const wrong = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody({ flaskIdentifier: 'VF-50-01' }));
     expect(wrong.status).toBe(400);
     expect(wrong.body.error.fields.flaskIdentifier).toContain('VF-100-01');
-    const unknown = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ flaskIdentifier: 'VF-999' }));
+    const unknown = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody({ flaskIdentifier: 'VF-999' }));
     expect(unknown.body.error.fields).toHaveProperty('flaskIdentifier');
-    const lot = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ solventLot: 'NOT-THE-LOT' }));
+    const lot = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody({ solventLot: 'NOT-THE-LOT' }));
     expect(lot.status).toBe(400);
     expect(lot.body.error.fields).toHaveProperty('solventLot');
     // the refusal never gives away the registered lot (it must be read from the bottle)
     const registeredLot = water().lot;
     expect(JSON.stringify(lot.body)).not.toContain(registeredLot);
-    const sub = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody({ flaskIdentifier: 'VF-100-02' }));
+    const sub = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody({ flaskIdentifier: 'VF-100-02' }));
     expect(sub.status).toBe(201);
     expect(sub.body.makeUp.flask).toMatchObject({ identifier: 'VF-100-02', substituted: true, snapshot: { identifier: 'VF-100-02', nominalVolumeMl: '100' } });
-    const second = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    const second = await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     expect(second.status).toBe(400);
     expect(second.body.error.fields).toHaveProperty('correctionReason');
   });
@@ -416,7 +420,7 @@ describe('records kept for good', () => {
   it('when the inventory is edited after planning and weighing, then the stored snapshots and result do not change', async () => {
     const p = await plan();
     await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
-    const before = (await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody())).body;
+    const before = (await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody())).body;
     const m = await ReferenceMaterial.findByPk(ids.material['Pb(NO3)2']);
     const b = await Balance.findByPk(ids.balance['BAL-SM1']);
     const [purity, status] = [m!.purityValue, b!.status];
@@ -449,7 +453,7 @@ describe('records kept for good', () => {
   it('when writes happen, then each is audited with the server-side actor (REQUIREMENTS AT-01)', async () => {
     const p = await plan();
     await send('technician', 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
-    await send('technician', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    await send('technician', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     const planned = await AuditEntry.findOne({ where: { entity: 'preparation', entityId: String(p.id), action: 'plan' } });
     expect(planned!.actorName).toBe('Dr. Maren Tollefsen');
     const w = await AuditEntry.findOne({ where: { entity: 'weighing', action: 'weighing_recorded' }, order: [['id', 'DESC']] });
@@ -481,7 +485,7 @@ describe('records kept for good', () => {
   it('when the database is closed and reopened, then the record reads back byte-identical', async () => {
     const p = await plan();
     await send('chemist', 'post', `/api/preparations/${p.id}/weighings`, weighingBody());
-    await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, makeUpBody());
+    await send('chemist', 'post', `/api/preparations/${p.id}/make-up`, await makeUpBody());
     const before = (await send('qa', 'get', `/api/preparations/${p.identifier}`)).text;
     await t.sequelize.close();
     const sequelize = await openDatabase(t.dbPath);

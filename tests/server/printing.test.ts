@@ -6,6 +6,7 @@ import request from 'supertest';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { LABEL_PRINTS_APPEND_ONLY } from '../../server/db/migrations/0007-printing.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'technician' | 'qa' | 'admin';
 const ROLES: Who[] = ['signedOut', 'chemist', 'technician', 'qa', 'admin'];
@@ -35,7 +36,7 @@ async function completePreparation(): Promise<string> {
   expect(p.status, JSON.stringify(p.body)).toBe(201);
   const key = p.body.identifier as string;
   expect((await send('chemist', 'post', `/api/preparations/${key}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions })).status).toBe(201);
-  const m = await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: ids.solvent.id, solventLot: ids.solvent.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const m = await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: ids.solvent.id, solventLot: ids.solvent.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return key;
 }

@@ -19,6 +19,7 @@ import { STANDING_NOTE } from '../../server/services/preparation-hazards.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'technician' | 'qa' | 'admin';
 let t: TestApp;
@@ -53,7 +54,7 @@ async function verifiedStock(): Promise<string> {
   const key = p.body.identifier as string;
   expect((await send('chemist', 'post', `/api/preparations/${key}/weighings`, { mode: 'direct', reading: '160.07', unit: 'mg', conditions: CONDITIONS })).status).toBe(201);
   const water = ids.solvent['Ultrapure water']!;
-  expect((await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
+  expect((await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
   expect((await signAs('chemist', key, 'prepared')).status).toBe(201);
   expect((await signAs('chemist2', key, 'verified')).status).toBe(201);
   return key;
@@ -266,13 +267,19 @@ describe('GET /api/series/:key', () => {
     expect(l2.status).toBe('planned');
   });
 
-  it('the parent as used: identifier, concentration ± U and expiry, the reference material lot; the cautions for the material', async () => {
+  it('the parent as used: identifier, concentration ± U and expiry, the reference material lot; the cautions for pipetting its nitric-acid solution', async () => {
     const s = (await send('qa', 'get', `/api/series/${first.series.identifier}`)).body;
     const pb = (await send('qa', 'get', `/api/preparations/${DEMO_PB}`)).body;
     expect(s.parent).toMatchObject({ identifier: DEMO_PB, version: pb.version, concentrationDisplay: pb.result.concentration.display, expiresOn: pb.expiry.expiresOn, status: 'verified' });
     expect(s.parent.material).toMatchObject({ name: pb.snapshot.material.name, lot: pb.snapshot.material.lot, certificateNumber: pb.snapshot.material.certificateNumber });
-    expect(s.hazards.cautions).toEqual(pb.hazards.cautions);
-    expect(s.hazards.cautions.at(-1)).toBe(STANDING_NOTE);
+    // the stock weighs the solid; the series pipettes its solution: no dust, and the stock's matrix (2 % nitric acid) named
+    expect(pb.hazards.cautions.some((c: string) => /dust/.test(c))).toBe(true);
+    expect(s.hazards.cautions.some((c: string) => /dust/.test(c))).toBe(false);
+    expect(s.hazards.task).toMatch(/^Pipetting a solution/);
+    expect(s.hazards.solvents).toEqual(expect.arrayContaining([expect.objectContaining({ name: 'Nitric acid 2 % (v/v)', hazards: 'corrosive, oxidising' })]));
+    expect(s.hazards.cautions.some((c: string) => /^Nitric acid is corrosive/.test(c))).toBe(true);
+    expect(s.hazards.cautions).not.toContain(STANDING_NOTE);
+    expect(s.hazards.sdsNote).toBe(STANDING_NOTE);
   });
 
   it('by numeric id as well as by identifier', async () => {
@@ -345,6 +352,8 @@ describe('GET /api/series/:key/sheet.pdf', () => {
   it('has write-in lines where no result is recorded yet, the cautions, the signature lines and the unverified mark', () => {
     expect((text.all.match(/write in:/g) ?? []).length).toBe(series.levels.filter((l: any) => !l.result).length);
     for (const c of series.hazards.cautions) expect(text.all).toContain(c);
+    expect(text.all.split(series.hazards.sdsNote).length - 1).toBe(1); // the SDS line once
+    expect(text.all).toContain('Nitric acid 2 % (v/v): corrosive, oxidising');
     expect(text.all).toContain('Prepared by (name)');
     expect(text.all).toContain('Checked / verified by (name)');
     expect(text.all).toContain(`${UNVERIFIED_MARK} (4 of 5 levels not verified)`);

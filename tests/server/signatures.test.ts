@@ -12,6 +12,7 @@ import { currentRecordHash, verifySignatures } from '../../server/services/signa
 import { SIGNATURE_MEANING_TEXT, VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { choosePassword, DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, TEMPORARY_PASSWORD, type TestApp } from './helpers/test-app.ts';
 import { demoInstant } from '../../seed/demo-clock.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 type Who = 'signedOut' | 'chemist' | 'chemist2' | 'chemist3' | 'technician' | 'qa' | 'admin';
 
@@ -50,7 +51,7 @@ async function weigh(key: string, who: Who, over: Record<string, unknown> = {}) 
 
 async function makeUp(key: string, who: Who, over: Record<string, unknown> = {}) {
   const water = ids.solvent['Ultrapure water']!;
-  return send(who, 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false, ...over });
+  return send(who, 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false, ...over });
 }
 
 /** Planned by `planner`, weighed and made up by `enterer` (default the planner): ready to sign "prepared". */

@@ -18,6 +18,7 @@ import { decimalsOf } from '../../shared/prep/index.ts';
 import { TRACE_REPORT_COLUMNS } from '../../shared/schemas/trace.ts';
 import { DEMO, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
 import { demoDay } from '../../seed/demo-clock.ts';
+import { freeFlask } from './helpers/free-flask.ts';
 
 /** BAL-SM1 in the demo register: calibrated 2026-06-16, due 2027-06-16, moved with the seeding day. */
 const SM1_STATUS = `in service; calibrated ${demoDay('2026-06-16')}, due ${demoDay('2027-06-16')}`;
@@ -102,13 +103,14 @@ beforeAll(async () => {
   const w = (await items('/api/solvents')).find((s) => s.name === 'Ultrapure water');
   ids.water = { id: w.id, lot: w.lot };
 
-  // generation 1: the cadmium stock (a lot no demo record uses), weighed on BAL-SM1 and made up in VF-100-01
+  // generation 1: the cadmium stock (a lot no demo record uses), weighed on BAL-SM1 and made up in a free flask
+  // (VF-100-01 holds the demo Pb stock: one flask, one open solution)
   stock = await plan(ids.cd, 'Cd', ids.balanceSm1, ids.flask);
   const dec = decimalsOf(stock.snapshot.balance.readabilityMg);
   const reading = new Decimal(stock.plan.targetReading.value).toFixed(dec);
   const wRes = await as('chemist').post(`/api/preparations/${stock.identifier}/weighings`, { mode: 'direct', reading, unit: 'mg', conditions: CONDITIONS });
   expect(wRes.status, JSON.stringify(wRes.body)).toBe(201);
-  const mRes = await as('chemist').post(`/api/preparations/${stock.identifier}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: ids.water.id, solventLot: ids.water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
+  const mRes = await as('chemist').post(`/api/preparations/${stock.identifier}/make-up`, { flaskIdentifier: (await freeFlask(t.app, cookie.chemist!)).identifier, solventId: ids.water.id, solventLot: ids.water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
   expect(mRes.status, JSON.stringify(mRes.body)).toBe(201);
   stock = mRes.body;
   // generations 2 and 3: planned from another material (so only the parent link can bring them into the Cd trace)
@@ -276,7 +278,7 @@ describe('three generations', () => {
     expect(res.status).toBe(200);
     expect(res.headers['content-type']).toMatch(/^application\/pdf/);
     const text = await pdfText(res.body as Buffer);
-    for (const s of [`Traceability report ${d2.identifier}`, stock.identifier, d1.identifier, d2.identifier, 'NRM-23-0072', 'BAL-SM1', 'VF-100-01', 'BP-10-01', ids.water.lot, 'Level 2']) {
+    for (const s of [`Traceability report ${d2.identifier}`, stock.identifier, d1.identifier, d2.identifier, 'NRM-23-0072', 'BAL-SM1', stock.makeUp.flask.identifier, 'BP-10-01', ids.water.lot, 'Level 2']) {
       expect(text, s).toContain(s);
     }
   });

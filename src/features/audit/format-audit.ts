@@ -1,37 +1,17 @@
 /** Display helpers for audit entries. Stored times are UTC; they are shown in the lab's time zone, named. */
 import { AUDIT_ACTION_LABELS, AUDIT_ENTITY_LABELS } from '../../../shared/schemas/audit.ts';
+import { labDateTime, zoneAbbreviation as zoneAbbreviationAt } from '../../../shared/prep/lab-time.ts';
 
-/** "12 Mar 2026, 09:14:03.120" in `timeZone` (seconds and ms: audit order matters). */
+/** "2026-03-12 09:14:03.120" in `timeZone` (seconds and ms: audit order matters; shared/prep/lab-time.ts). */
 export function formatAuditTime(iso: string, timeZone: string): string {
   const d = new Date(iso);
   if (Number.isNaN(d.getTime())) return iso;
-  try {
-    return new Intl.DateTimeFormat('en-GB', {
-      timeZone,
-      day: '2-digit',
-      month: 'short',
-      year: 'numeric',
-      hour: '2-digit',
-      minute: '2-digit',
-      second: '2-digit',
-      fractionalSecondDigits: 3,
-      hourCycle: 'h23',
-    }).format(d);
-  } catch {
-    return iso;
-  }
+  return `${labDateTime(d, timeZone, { seconds: true })}.${String(d.getUTCMilliseconds()).padStart(3, '0')}`;
 }
 
 /** The zone's abbreviation at that moment, e.g. "GMT" or "BST" for Europe/London. */
 export function zoneAbbreviation(iso: string, timeZone: string): string {
-  try {
-    const part = new Intl.DateTimeFormat('en-GB', { timeZone, timeZoneName: 'short' })
-      .formatToParts(new Date(iso))
-      .find((p) => p.type === 'timeZoneName');
-    return part?.value ?? timeZone;
-  } catch {
-    return timeZone;
-  }
+  return zoneAbbreviationAt(timeZone, iso);
 }
 
 export const actionLabel = (action: string) => AUDIT_ACTION_LABELS[action] ?? action.replace(/_/g, ' ');

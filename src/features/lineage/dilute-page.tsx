@@ -22,9 +22,14 @@ import type { VolumetricWare } from '../../../shared/schemas/inventory.ts';
 import type { DilutionMethod } from '../../../shared/schemas/lineage.ts';
 import { GravimetricForm } from './components/gravimetric-form.tsx';
 
-export function wareLabel(w: Pick<VolumetricWare, 'identifier' | 'nominalVolumeMl' | 'class' | 'toleranceMl' | 'kind'>): string {
+export function wareLabel(w: Pick<VolumetricWare, 'identifier' | 'nominalVolumeMl' | 'class' | 'toleranceMl' | 'kind'> & { holds?: string | null }): string {
   const kind = w.kind === 'volumetric_flask' ? 'flask' : w.kind.replace(/_/g, ' ');
-  return `${w.identifier} — ${w.nominalVolumeMl} mL ${kind}, class ${w.class}${w.toleranceMl ? ` ± ${w.toleranceMl} mL` : ''}`;
+  return `${w.identifier} — ${w.nominalVolumeMl} mL ${kind}, class ${w.class}${w.toleranceMl ? ` ± ${w.toleranceMl} mL` : ''}${occupiedNote(w)}`;
+}
+
+/** A flask that still holds an open preparation's solution is marked (one flask, one open solution). */
+export function occupiedNote(w: { holds?: string | null }): string {
+  return w.holds ? ` — occupied: still holds ${w.holds}` : '';
 }
 
 function Field({ id, label, error, hint, children }: { id: string; label: string; error?: string; hint?: string; children: ReactNode }) {
@@ -191,7 +196,7 @@ export function DilutePage() {
                 <select id="dilute-flask" data-testid="dilute-flask" value={flaskId} onChange={(e) => setFlaskId(e.target.value)} className="field-input" aria-invalid={fields.flaskId ? true : undefined}>
                   <option value="">{flasks.isPending ? 'Loading…' : 'Choose a flask'}</option>
                   {(flasks.data ?? []).map((w) => (
-                    <option key={w.id} value={w.id}>
+                    <option key={w.id} value={w.id} disabled={Boolean(w.holds)}>
                       {wareLabel(w)}
                     </option>
                   ))}

@@ -5,6 +5,7 @@
  */
 import type { PreparationDetail } from '../preparations/types.ts';
 import type { LineageSection } from './types.ts';
+import { labDate } from '../../../shared/prep/lab-time.ts';
 
 export type ParentConcentration = { value: string; unit: string; standardUncertainty: string; display: string };
 
@@ -19,15 +20,9 @@ export function parentConcentration(d: PreparationDetail): ParentConcentration |
   return c ? { value: c.value, unit: c.unit, standardUncertainty: c.standardUncertainty, display: c.display } : null;
 }
 
-/** Today's calendar date in the lab's time zone, YYYY-MM-DD. */
+/** Today's calendar date in the lab's time zone, YYYY-MM-DD (shared/prep/lab-time.ts). */
 export function labToday(timeZone: string | undefined, now: Date = new Date()): string {
-  try {
-    const parts = new Intl.DateTimeFormat('en-CA', { timeZone: timeZone ?? 'UTC', year: 'numeric', month: '2-digit', day: '2-digit' }).formatToParts(now);
-    const get = (t: string) => parts.find((p) => p.type === t)?.value ?? '';
-    return `${get('year')}-${get('month')}-${get('day')}`;
-  } catch {
-    return now.toISOString().slice(0, 10);
-  }
+  return labDate(now, timeZone ?? 'UTC');
 }
 
 /** Why a dilution cannot be made from `d` today, or null when it can. */

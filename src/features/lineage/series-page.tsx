@@ -254,7 +254,7 @@ export function SeriesPage() {
                             <select id={`series-flask-${i}`} data-testid={`series-flask-${i}`} value={r.flaskId} onChange={(e) => update({ flaskId: e.target.value })} className="field-input">
                               <option value="">Choose a flask</option>
                               {(flasks.data ?? []).map((w) => (
-                                <option key={w.id} value={w.id}>
+                                <option key={w.id} value={w.id} disabled={Boolean(w.holds)}>
                                   {wareLabel(w)}
                                 </option>
                               ))}

@@ -235,7 +235,7 @@ export function MixPage() {
               <select id="mix-flask" data-testid="mix-flask" value={flaskId} onChange={(e) => setFlaskId(e.target.value)} className="field-input" aria-invalid={fields.flaskId ? true : undefined}>
                 <option value="">{flasks.isPending ? 'Loading…' : 'Choose a flask'}</option>
                 {(flasks.data ?? []).map((w) => (
-                  <option key={w.id} value={w.id}>
+                  <option key={w.id} value={w.id} disabled={Boolean(w.holds)}>
                     {wareLabel(w)}
                   </option>
                 ))}

@@ -20,6 +20,7 @@ import { GravimetricBench, isGravimetric } from '../lineage/components/gravimetr
 import { MixBench } from '../mixes/components/mix-bench.tsx';
 import { isMix, mixOf } from '../mixes/components/mix-panel.tsx';
 import { shownEstimate } from '../../../shared/calc/rounding.ts';
+import { HazardCautions } from './components/hazard-cautions.tsx';
 
 /** The bench view: target and window huge, then record the weighing and the make-up. Glove-sized targets. */
 export function BenchPage() {
@@ -115,6 +116,8 @@ export function BenchPage() {
         </dl>
       </section>
       )}
+
+      {dilution ? null : <HazardCautions hazards={d.hazards} testId="bench-cautions" showCodes={false} />}
 
       <SealBrokenBanner d={d} />
       <ReviewFlagBanner d={d} timeZone={tz} />

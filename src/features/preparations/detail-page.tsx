@@ -1,7 +1,7 @@
 import type { ReactNode } from 'react';
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router';
-import { Banner, CautionBox, PageHeader, Panel, Spinner } from '../../components/ui/feedback.tsx';
+import { Banner, PageHeader, Panel, Spinner } from '../../components/ui/feedback.tsx';
 import { useAuth } from '../auth/use-auth.ts';
 import { settingsQueries } from '../calculate/api/settings-queries.ts';
 import { BudgetTable } from '../calculate/components/budget-table.tsx';
@@ -20,6 +20,7 @@ import { SignaturesPanel } from '../signatures/components/signatures-panel.tsx';
 import { MixAction, MixInputs, MixPanel, isMix } from '../mixes/components/mix-panel.tsx';
 import { AmendedMarker, ReviewFlagBanner, SealBrokenBanner, StatusBadge, StatusExplainer, VersionTag } from '../signatures/components/status-badge.tsx';
 import { ExpiredBanner, ExpiryPanel } from '../expiry/components/expiry-panel.tsx';
+import { HazardCautions } from './components/hazard-cautions.tsx';
 
 function Facts({ rows, testId }: { rows: [string, ReactNode][]; testId?: string }) {
   return (
@@ -279,17 +280,7 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
       </Panel>
 
       <Panel title="Hazards" id="detail-hazards">
-        <CautionBox>
-          {d.hazards.cautions.length ? (
-            <ul className="list-disc space-y-1 pl-5" data-testid="hazard-cautions">
-              {d.hazards.cautions.map((c) => (
-                <li key={c}>{c}</li>
-              ))}
-            </ul>
-          ) : null}
-          {d.hazards.statements.length ? <p className="mt-1">GHS: {[...d.hazards.pictograms, ...d.hazards.statements].join(', ')}</p> : null}
-          <p className="mt-1 font-semibold">Follow the SDS, local regulations and the laboratory&apos;s own procedures.</p>
-        </CautionBox>
+        <HazardCautions hazards={d.hazards} testId="hazard-cautions" />
       </Panel>
 
       <Panel title="Status history" id="detail-history">

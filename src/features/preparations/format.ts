@@ -2,26 +2,12 @@
 import { D } from '../../../shared/calc/decimal.ts';
 import { PREPARATION_ID_RE } from '../../../shared/prep/identifiers.ts';
 import type { Stage } from './types.ts';
+import { labDateTime } from '../../../shared/prep/lab-time.ts';
 
-/** "7 Mar 2026, 14:02 GMT": the instant in the lab's time zone, with the zone named (REQUIREMENTS TS-02). */
+/** "2026-03-07 14:02": the instant in the lab's time zone (24 h); the zone is stated once per page (shared/prep/lab-time.ts). */
 export function formatLabTime(iso: string | null | undefined, timeZone: string | undefined): string {
   if (!iso) return '—';
-  const d = new Date(iso);
-  if (Number.isNaN(d.getTime())) return iso;
-  const tz = timeZone ?? 'UTC';
-  try {
-    return new Intl.DateTimeFormat('en-GB', {
-      day: 'numeric',
-      month: 'short',
-      year: 'numeric',
-      hour: '2-digit',
-      minute: '2-digit',
-      timeZone: tz,
-      timeZoneName: 'short',
-    }).format(d);
-  } catch {
-    return d.toISOString();
-  }
+  return labDateTime(iso, timeZone ?? 'UTC');
 }
 
 export const STAGE_LABELS: Record<Stage, string> = {

@@ -181,7 +181,8 @@ export function PlanPage() {
     { value: '', label: 'Choose a volumetric flask…' },
     ...(flasks.data ?? []).map((f) => ({
       value: String(f.id),
-      label: `${f.identifier} — ${f.nominalVolumeMl} mL class ${f.class}${f.toleranceMl ? ` (± ${f.toleranceMl} mL)` : ''}`,
+      // a flask holding an open preparation's solution is marked; the flask used is the one scanned at make-up
+      label: `${f.identifier} — ${f.nominalVolumeMl} mL class ${f.class}${f.toleranceMl ? ` (± ${f.toleranceMl} mL)` : ''}${f.holds ? ` — occupied: still holds ${f.holds}` : ''}`,
     })),
   ];
   const volumeMode = watched.volumeMode ?? 'flask';

@@ -5,13 +5,14 @@
  */
 import { useQuery } from '@tanstack/react-query';
 import { Link, useParams } from 'react-router';
-import { Banner, CautionBox, PageHeader, Panel, Spinner } from '../../components/ui/feedback.tsx';
+import { Banner, PageHeader, Panel, Spinner } from '../../components/ui/feedback.tsx';
 import { useAuth } from '../auth/use-auth.ts';
 import { settingsQueries } from '../calculate/api/settings-queries.ts';
 import { formatLabTime } from '../preparations/format.ts';
 import { StatusBadge } from '../signatures/components/status-badge.tsx';
 import { seriesQueries, seriesUrls, type SeriesLevelDetail } from './api/series-api.ts';
 import { aliquotText, benchOpen, levelConcentration, verifiedProgress } from './format.ts';
+import { HazardCautions } from '../preparations/components/hazard-cautions.tsx';
 
 const linkButton = 'inline-flex min-h-12 items-center justify-center rounded-lg border-2 px-5 text-base font-semibold';
 
@@ -122,15 +123,7 @@ export function SeriesDetailPage() {
         </dl>
       </Panel>
 
-      {s.hazards.cautions.length ? (
-        <CautionBox>
-          <ul className="list-disc pl-5" data-testid="series-cautions">
-            {s.hazards.cautions.map((c) => (
-              <li key={c}>{c}</li>
-            ))}
-          </ul>
-        </CautionBox>
-      ) : null}
+      <HazardCautions hazards={s.hazards} testId="series-cautions" />
 
       <Panel title="Levels" id="series-levels">
         <p className="mb-3 text-ink-soft">

@@ -1,5 +1,6 @@
 /** Display helpers for signatures and record status. Times are stored in UTC and shown in the lab zone. */
 import type { PreparationDetail, PreparationStatus } from '../../../shared/schemas/preparations.ts';
+import { labDateTime, zoneAbbreviation } from '../../../shared/prep/lab-time.ts';
 
 /** Statuses in which the record carries a live "prepared" signature: any data change amends it. */
 export const SIGNED_STATUSES: readonly string[] = ['prepared', 'returned', 'verified'];
@@ -22,36 +23,15 @@ export function statusText(status: PreparationStatus | string): { label: string;
   return STATUS_TEXT[status] ?? { label: status.charAt(0).toUpperCase() + status.slice(1).replace(/_/g, ' '), hint: '' };
 }
 
-function parts(iso: string, timeZone: string, zoneName: 'short' | undefined) {
-  return new Intl.DateTimeFormat('en-GB', {
-    day: 'numeric',
-    month: 'short',
-    year: 'numeric',
-    hour: '2-digit',
-    minute: '2-digit',
-    second: '2-digit',
-    hourCycle: 'h23',
-    timeZone,
-    ...(zoneName ? { timeZoneName: zoneName } : {}),
-  }).format(new Date(iso));
-}
-
 /**
- * A signature time as the manifestation shows it (REQUIREMENTS ES-01, TS-02): the instant in the lab's
- * zone with the zone named, and the same instant in UTC. "9 Nov 2026, 09:21:14 GMT" / "2026-11-09 09:21:14 UTC".
+ * A signature time as the manifestation shows it (REQUIREMENTS ES-01, TS-02): the instant in the lab's zone with the
+ * zone named, and the same instant in UTC, both ISO with 24 h seconds. "2026-11-09 09:21:14 GMT" / "2026-11-09 09:21:14 UTC".
  */
 export function signatureTime(iso: string, timeZone: string | undefined): { local: string; zone: string; utc: string } {
   const d = new Date(iso);
   if (Number.isNaN(d.getTime())) return { local: iso, zone: timeZone ?? 'UTC', utc: iso };
   const zone = timeZone ?? 'UTC';
-  let local: string;
-  try {
-    local = parts(iso, zone, 'short');
-  } catch {
-    local = parts(iso, 'UTC', 'short');
-  }
-  const utc = `${d.toISOString().slice(0, 10)} ${d.toISOString().slice(11, 19)} UTC`;
-  return { local, zone, utc };
+  return { local: `${labDateTime(d, zone, { seconds: true })} ${zoneAbbreviation(zone, d)}`, zone, utc: `${labDateTime(d, 'UTC', { seconds: true })} UTC` };
 }
 
 /** The first 12 hex digits of a SHA-256, grouped for reading aloud ("3f2a 9c01 be77"). */

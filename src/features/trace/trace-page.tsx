@@ -13,6 +13,7 @@ import { useAuth } from '../auth/use-auth.ts';
 import { forwardReportUrl, reportUrl, traceQueries, useFlagForReview, type TraceRange } from './api/trace-api.ts';
 import { GraphLegend, LineageGraph, LineageList, mergeGraphs, nodeLook } from './components/lineage-graph.tsx';
 import { subjectNodeId, type ReviewFlagsCreated, type TraceResponse } from './types.ts';
+import { ISO_DATE_INPUT } from '../../lib/format.ts';
 
 type View = 'backward' | 'forward';
 
@@ -287,7 +288,7 @@ export function TracePage() {
             </label>
             <input
               id="trace-from"
-              type="date"
+              {...ISO_DATE_INPUT}
               data-testid="trace-from"
               value={dates.from}
               onChange={(e) => setDates((d) => ({ ...d, from: e.target.value }))}
@@ -302,7 +303,7 @@ export function TracePage() {
             </label>
             <input
               id="trace-to"
-              type="date"
+              {...ISO_DATE_INPUT}
               data-testid="trace-to"
               value={dates.to}
               onChange={(e) => setDates((d) => ({ ...d, to: e.target.value }))}

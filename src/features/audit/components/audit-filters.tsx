@@ -3,6 +3,7 @@ import type { FormEvent } from 'react';
 import { AUDIT_ACTION_LABELS, AUDIT_ENTITY_LABELS } from '../../../../shared/schemas/audit.ts';
 import { Button } from '../../../components/ui/button.tsx';
 import { auditQueries } from '../api/audit-queries.ts';
+import { ISO_DATE_INPUT } from '../../../lib/format.ts';
 
 export const FILTER_KEYS = ['entity', 'entityId', 'actorId', 'action', 'from', 'to', 'search'] as const;
 export type FilterKey = (typeof FILTER_KEYS)[number];
@@ -95,13 +96,13 @@ export function AuditFilters({
           <ErrorText id="audit-action-error" text={errors.action} />
         </div>
         <div>
-          <label htmlFor="audit-from" className={label}>From (UTC date)</label>
-          <input {...input('from')} type="date" />
+          <label htmlFor="audit-from" className={label}>From (lab day, YYYY-MM-DD)</label>
+          <input {...input('from')} {...ISO_DATE_INPUT} />
           <ErrorText id="audit-from-error" text={errors.from} />
         </div>
         <div>
-          <label htmlFor="audit-to" className={label}>To (UTC date, included)</label>
-          <input {...input('to')} type="date" />
+          <label htmlFor="audit-to" className={label}>To (lab day, included)</label>
+          <input {...input('to')} {...ISO_DATE_INPUT} />
           <ErrorText id="audit-to-error" text={errors.to} />
         </div>
         <div className="sm:col-span-2">

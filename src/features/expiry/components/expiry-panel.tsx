@@ -13,7 +13,7 @@ import { useAuth } from '../../auth/use-auth.ts';
 import { expiryReasonText, formatLabTime, statusLabel } from '../../preparations/format.ts';
 import { useExtendExpiry } from '../api/expiry-mutations.ts';
 import { acknowledgeProblem, extendFormSchema, toInput, type ExtendFormValues } from '../form-schema.ts';
-import { addDays } from '../../../../shared/prep/dates.ts';
+import { ISO_DATE_INPUT } from '../../../lib/format.ts';
 
 type ExpiryDetail = Pick<
   PreparationDetail,
@@ -152,7 +152,6 @@ function ExtendForm({ d }: { d: ExpiryDetail }) {
   });
 
   if (auth.status !== 'signed-in') return null;
-  const min = addDays(d.expiry.expiresOn, 1);
 
   return (
     <form noValidate onSubmit={submit} className="flex flex-col gap-4 rounded-lg border-2 border-slate-700 p-4" data-testid="expiry-extend-form">
@@ -189,11 +188,9 @@ function ExtendForm({ d }: { d: ExpiryDetail }) {
       ) : null}
 
       <TextField
-        label="New expiry date"
-        type="date"
+        label="New expiry date (YYYY-MM-DD)"
+        {...ISO_DATE_INPUT}
         numeric
-        min={min}
-        {...(d.expiryCap ? { max: d.expiryCap.date } : {})}
         registration={form.register('newExpiresOn')}
         error={errors.newExpiresOn?.message}
         hint={

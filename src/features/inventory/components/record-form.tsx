@@ -14,6 +14,7 @@ import { fieldId, SelectField, TextField } from '../../../components/ui/field.ts
 import { ApiError } from '../../../lib/api-client.ts';
 import { applyApiFieldErrors } from '../../../lib/form.ts';
 import type { Option } from './list-toolbar.tsx';
+import { ISO_DATE_INPUT } from '../../../lib/format.ts';
 
 // eslint-disable-next-line @typescript-eslint/no-explicit-any
 export type FormValues = Record<string, any>;
@@ -216,8 +217,7 @@ export function RecordForm({
         suffix={f.suffix}
         className={className}
         numeric={f.type === 'decimal'}
-        inputMode={f.type === 'decimal' ? 'decimal' : undefined}
-        type={f.type === 'date' ? 'date' : 'text'}
+        {...(f.type === 'date' ? ISO_DATE_INPUT : { type: 'text', inputMode: f.type === 'decimal' ? ('decimal' as const) : undefined })}
       />
     );
   };

@@ -9,7 +9,7 @@ import { MatrixWarningNote } from './matrix-warning.tsx';
 import { useState } from 'react';
 import { Link } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
-import { Banner, CautionBox, Panel } from '../../../components/ui/feedback.tsx';
+import { Banner, Panel } from '../../../components/ui/feedback.tsx';
 import type { Aliquot, LineageSection } from '../../../../shared/schemas/lineage.ts';
 import { MakeUpForm } from '../../preparations/components/make-up-form.tsx';
 import { formatLabTime, percent } from '../../preparations/format.ts';
@@ -17,6 +17,7 @@ import type { PreparationDetail } from '../../preparations/types.ts';
 import { useAuth } from '../../auth/use-auth.ts';
 import { aliquotFieldsFor, wareKindLabel } from './aliquot-fields.ts';
 import { AliquotForm } from './aliquot-form.tsx';
+import { HazardCautions } from '../../preparations/components/hazard-cautions.tsx';
 
 /** The aliquot that counts: the newest one nothing supersedes. */
 export function currentAliquot(aliquots: Aliquot[]): Aliquot | undefined {
@@ -125,15 +126,7 @@ export function DilutionBench({ d, timeZone: tz }: { d: PreparationDetail; timeZ
         </dl>
       </section>
 
-      <CautionBox>
-        <ul className="list-disc space-y-1 pl-5" data-testid="bench-cautions">
-          {d.hazards.cautions.map((c) => (
-            <li key={c}>{c}</li>
-          ))}
-          <li>Never pipette by mouth: use a pipette filler or the piston pipette, and wear gloves and eye protection.</li>
-        </ul>
-        {d.hazards.cautions.some((c) => /\bSDS\b/.test(c)) ? null : <p className="mt-1 font-semibold">Follow the SDS, local regulations and the laboratory&apos;s own procedures.</p>}
-      </CautionBox>
+      <HazardCautions hazards={d.hazards} testId="bench-cautions" showCodes={false} />
 
       {saved ? (
         <Banner tone="ok" title="Saved" testId="bench-saved">

@@ -8,7 +8,7 @@ import { useState, type FormEvent, type ReactNode } from 'react';
 import { useMutation, useQueryClient } from '@tanstack/react-query';
 import { Link } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
-import { Banner, CautionBox, Panel } from '../../../components/ui/feedback.tsx';
+import { Banner, Panel } from '../../../components/ui/feedback.tsx';
 import { api, type ApiError } from '../../../lib/api-client.ts';
 import { gravimetricReadingsInputSchema, type GravimetricDilutionSection, type GravimetricReadingDto, type GravimetricReadingsInput } from '../../../../shared/schemas/gravimetric.ts';
 import type { LineageSection } from '../../../../shared/schemas/lineage.ts';
@@ -18,6 +18,7 @@ import { calcVersionName, formatLabTime, percent } from '../../preparations/form
 import type { PreparationDetail } from '../../preparations/types.ts';
 import { GatePanels } from '../../preparations/components/gate-panels.tsx';
 import { useAuth } from '../../auth/use-auth.ts';
+import { HazardCautions } from '../../preparations/components/hazard-cautions.tsx';
 
 export function gravimetricOf(d: PreparationDetail): GravimetricDilutionSection | undefined {
   return (d as PreparationDetail & LineageSection).gravimetric;
@@ -183,9 +184,7 @@ export function GravimetricBench({ d, timeZone }: { d: PreparationDetail; timeZo
           </p>
         </div>
       </section>
-      <CautionBox>
-        The parent may contain toxic metals and acid: wear gloves and eye protection, keep bottles closed, and follow the safety data sheet and your laboratory's procedures.
-      </CautionBox>
+      <HazardCautions hazards={d.hazards} testId="grav-bench-cautions" showCodes={false} />
 
       {g.readings.length ? (
         <Panel title="Readings recorded" id="grav-readings">

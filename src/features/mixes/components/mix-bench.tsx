@@ -7,7 +7,7 @@
 import { useState } from 'react';
 import { Link } from 'react-router';
 import { Button } from '../../../components/ui/button.tsx';
-import { Banner, CautionBox, Panel } from '../../../components/ui/feedback.tsx';
+import { Banner, Panel } from '../../../components/ui/feedback.tsx';
 import type { Aliquot, LineageSection, MixComponent } from '../../../../shared/schemas/lineage.ts';
 import { MakeUpForm } from '../../preparations/components/make-up-form.tsx';
 import { formatLabTime, percent } from '../../preparations/format.ts';
@@ -15,6 +15,7 @@ import type { PreparationDetail } from '../../preparations/types.ts';
 import { aliquotFieldsFor, wareKindLabel } from '../../lineage/components/aliquot-fields.ts';
 import { AliquotForm } from '../../lineage/components/aliquot-form.tsx';
 import { currentComponentAliquot, mixOf } from './mix-panel.tsx';
+import { HazardCautions } from '../../preparations/components/hazard-cautions.tsx';
 
 function Done({ done }: { done: boolean }) {
   return (
@@ -137,15 +138,7 @@ export function MixBench({ d, timeZone: tz }: { d: PreparationDetail; timeZone?:
         , then make up to the mark and mix well.
       </section>
 
-      <CautionBox>
-        <ul className="list-disc space-y-1 pl-5" data-testid="mix-bench-cautions">
-          {d.hazards.cautions.map((c) => (
-            <li key={c}>{c}</li>
-          ))}
-          <li>Never pipette by mouth: use a pipette filler or the piston pipette, and wear gloves and eye protection.</li>
-        </ul>
-        <p className="mt-1 font-semibold">Follow the SDS, local regulations and the laboratory&apos;s own procedures.</p>
-      </CautionBox>
+      <HazardCautions hazards={d.hazards} testId="mix-bench-cautions" showCodes={false} />
 
       {saved ? (
         <Banner tone="ok" title="Saved" testId="bench-saved">

@@ -1,5 +1,6 @@
 import type { PreparationDetail } from '../../../../shared/schemas/preparations.ts';
 import { statusText } from '../format.ts';
+import { labDateTime } from '../../../../shared/prep/lab-time.ts';
 
 /** Tone plus an icon-free word: the status is always written out, never shown by colour alone. */
 const TONES: Record<string, string> = {
@@ -80,7 +81,7 @@ export function ReviewFlagBanner({ d, timeZone }: { d: Pick<PreparationDetail, '
   const when = new Date(d.reviewFlag.flaggedAt);
   const at = Number.isNaN(when.getTime())
     ? d.reviewFlag.flaggedAt
-    : new Intl.DateTimeFormat('en-GB', { dateStyle: 'medium', timeStyle: 'short', timeZone: timeZone ?? 'UTC', timeZoneName: 'short' }).format(when);
+    : labDateTime(when, timeZone ?? 'UTC');
   return (
     <div role="alert" data-testid="review-flag" className="rounded-lg border-2 border-l-8 border-caution-700 bg-caution-50 px-4 py-3 text-caution-700">
       <p className="font-bold">Needs review: a record this one was made from has changed</p>
