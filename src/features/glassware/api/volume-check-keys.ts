@@ -6,5 +6,8 @@ export const volumeCheckKeys = {
   detail: (key: string) => [...volumeCheckKeys.details(), key] as const,
   calibrations: () => [...volumeCheckKeys.all, 'calibration'] as const,
   calibration: (wareId: number) => [...volumeCheckKeys.calibrations(), wareId] as const,
+  pickerWare: () => [...volumeCheckKeys.all, 'picker', 'ware'] as const,
+  pickerBalances: () => [...volumeCheckKeys.all, 'picker', 'balances'] as const,
+  balance: (id: number) => [...volumeCheckKeys.all, 'balance', id] as const,
   live: (body: unknown) => [...volumeCheckKeys.all, 'live', body] as const,
 };

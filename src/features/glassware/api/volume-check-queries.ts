@@ -1,5 +1,6 @@
 import { keepPreviousData, queryOptions } from '@tanstack/react-query';
 import { api } from '../../../lib/api-client.ts';
+import type { Balance, VolumetricWare } from '../../../../shared/schemas/inventory.ts';
 import type { VolumeCheckRequestInput } from '../../../../shared/schemas/volume-check.ts';
 import type { VolumeCheckDetail, VolumeCheckResponse, VolumeCheckSummary, WareCalibration } from '../types.ts';
 import { volumeCheckKeys } from './volume-check-keys.ts';
@@ -36,6 +37,36 @@ export const volumeCheckQueries = {
       placeholderData: keepPreviousData,
       staleTime: 60_000,
       retry: false,
+    }),
+};
+
+/** Inventory lists answer `{ items, total, … }`. */
+async function items<T>(path: string): Promise<T[]> {
+  const body = await api.get<{ items?: T[] } | null>(path);
+  return body?.items ?? [];
+}
+
+export const checkPickerQueries = {
+  /** every volumetric ware item (the list filter and the plan's picker keep the kinds a check covers) */
+  ware: () =>
+    queryOptions({
+      queryKey: volumeCheckKeys.pickerWare(),
+      queryFn: () => items<VolumetricWare>('/api/volumetric-ware?pageSize=200'),
+      staleTime: 60_000,
+    }),
+  /** balances in service (the server's gates decide whether one suits the volume) */
+  balances: () =>
+    queryOptions({
+      queryKey: volumeCheckKeys.pickerBalances(),
+      queryFn: async () => (await items<Balance>('/api/balances?pageSize=200')).filter((b) => b.status === 'in_service'),
+      staleTime: 60_000,
+    }),
+  /** one balance (weight density and calibration uncertainty for the bench's live calculation) */
+  balance: (id: number) =>
+    queryOptions({
+      queryKey: volumeCheckKeys.balance(id),
+      queryFn: () => api.get<Balance>(`/api/balances/${id}`),
+      staleTime: 60_000,
     }),
 };
 
