@@ -19,6 +19,7 @@ import {
   replicateSlots,
   testedLabel,
   uncertaintyText,
+  valueAtUncertainty,
   volumeText,
 } from '../../src/features/glassware/format.ts';
 import { EMPTY_CHECK_PLAN, formFieldOf, refusedGates, toPlanInput, type PlanFormValues } from '../../src/features/glassware/plan-form.ts';
@@ -185,6 +186,8 @@ describe('rounding at the edge', () => {
     expect(volumeText('10.003952714', '0.1')).toBe('10.0040');
     expect(volumeText('-0.00123456', '0.01')).toBe('-0.00123');
     expect(uncertaintyText('0.000934187')).toBe('0.00093');
+    expect(valueAtUncertainty('10.004002146323527361', '0.000934187')).toBe('10.00400');
+    expect(valueAtUncertainty('0.19876', '0.0021')).toBe('0.1988');
   });
 });
 

@@ -195,3 +195,10 @@ export function testedLabel(d: Pick<VolumeCheckDetail, 'plan'>, testedIndex: num
   const names = ['nominal', '50 %', '10 %'];
   return `${t.value} ${t.unit} (${names[testedIndex] ?? `setting ${testedIndex + 1}`})`;
 }
+
+/** A value rounded to the last place of its expanded uncertainty as shown (two significant figures; JCGM 100 §7.2.6). */
+export function valueAtUncertainty(value: string | null | undefined, expanded: string | null | undefined): string {
+  const u = uncertaintyText(expanded);
+  if (u === '—' || /×/.test(u)) return fixed(value, 6);
+  return fixed(value, decimalsOf(u));
+}

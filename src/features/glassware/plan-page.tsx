@@ -164,7 +164,7 @@ export function CheckPlanPage() {
           </Section>
 
           <CautionBox>
-            Use distilled or deionised water (ISO 3696 grade 3 or better) equilibrated to the room. Pipette by mouth never; wear gloves and eye protection as
+            Use distilled or deionised water (ISO 3696 grade 3 or better) equilibrated to the room. Never pipette by mouth; wear gloves and eye protection as
             your local procedure and the cleaning agents&apos; safety data sheets require.
           </CautionBox>
 

@@ -3,7 +3,7 @@ import { Link } from 'react-router';
 import { Banner, Panel, Spinner } from '../../../components/ui/feedback.tsx';
 import { useAuth } from '../../auth/use-auth.ts';
 import { volumeCheckQueries } from '../api/volume-check-queries.ts';
-import { CALIBRATION_TEXT, isCheckable, uncertaintyText } from '../format.ts';
+import { CALIBRATION_TEXT, isCheckable, uncertaintyText, valueAtUncertainty } from '../format.ts';
 import { CalibrationBadge, VerdictBadge } from './check-badges.tsx';
 
 const linkClass = 'inline-flex min-h-12 items-center rounded-lg border-2 border-slate-700 px-4 font-semibold hover:bg-slate-100';
@@ -51,7 +51,7 @@ export function WareCalibrationPanel({ wareId, kind, retired }: { wareId: number
                 <div>
                   <dt className="text-sm font-semibold text-ink-soft">Calibrated volume at 20 °C</dt>
                   <dd className="num text-lg" data-testid="ware-calibrated-volume">
-                    {cal.data.calibratedVolume.value} ± {uncertaintyText(cal.data.calibratedVolume.expandedUncertainty)} {cal.data.calibratedVolume.unit}{' '}
+                    {valueAtUncertainty(cal.data.calibratedVolume.value, cal.data.calibratedVolume.expandedUncertainty)} ± {uncertaintyText(cal.data.calibratedVolume.expandedUncertainty)} {cal.data.calibratedVolume.unit}{' '}
                     <span className="font-sans text-sm text-ink-soft">(k = {cal.data.calibratedVolume.k})</span>
                   </dd>
                 </div>
