@@ -32,6 +32,7 @@ const NAV: NavItem[] = [
   { to: '/preparations', label: 'Preparations', end: true, testId: 'nav-preparations' },
   { to: '/preparations/new', label: 'Plan a standard', roles: ['chemist'], testId: 'nav-plan' },
   { to: '/series', label: 'Calibration series', testId: 'nav-series' },
+  { to: '/glassware', label: 'Glassware checks', roles: ['chemist', 'technician', 'qa', 'admin'], testId: 'nav-glassware' },
   { to: '/inventory/materials', label: 'Materials', group: 'Inventory', testId: 'nav-inventory-materials' },
   { to: '/inventory/balances', label: 'Balances', group: 'Inventory', testId: 'nav-inventory-balances' },
   { to: '/inventory/volumetric-ware', label: 'Volumetric ware', group: 'Inventory', testId: 'nav-inventory-ware' },

@@ -71,6 +71,17 @@ export const router = createBrowserRouter([
             ],
           },
           {
+            path: 'glassware',
+            children: [
+              { index: true, lazy: async () => ({ Component: (await import('../features/glassware/glassware-list-page.tsx')).GlasswareListPage }) },
+              {
+                element: <RequireRole roles={['chemist', 'technician']} />,
+                children: [{ path: 'new', lazy: async () => ({ Component: (await import('../features/glassware/plan-page.tsx')).CheckPlanPage }) }],
+              },
+              { path: ':identifier', lazy: async () => ({ Component: (await import('../features/glassware/check-page.tsx')).CheckPage }) },
+            ],
+          },
+          {
             path: 'mixes',
             element: <RequireRole roles={['chemist']} />,
             children: [{ path: 'new', lazy: async () => ({ Component: (await import('../features/mixes/mix-page.tsx')).MixPage }) }],

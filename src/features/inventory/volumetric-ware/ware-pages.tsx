@@ -2,6 +2,7 @@ import { WARE_CLASSES, WARE_INPUT_STATUSES, WARE_KINDS, wareCreateInputSchema, w
 import { withUnit } from '../components/detail-list.tsx';
 import type { FormSection, FormValues } from '../components/record-form.tsx';
 import { label, STATUS_LABELS, WARE_CLASS_LABELS, WARE_KIND_LABELS } from '../format.ts';
+import { WareCalibrationPanel } from '../../glassware/components/calibration-panel.tsx';
 import { RecordCreatePage, RecordDetailPage, type CreateConfig, type DetailConfig } from '../record-pages.tsx';
 
 const sections: FormSection[] = [
@@ -45,6 +46,7 @@ export const wareDetailConfig: DetailConfig<'volumetric-ware'> = {
     { label: 'Tolerance', value: w.toleranceMl ? withUnit(`± ${w.toleranceMl}`, 'mL') : null, numeric: true },
     { label: 'Material', value: w.material },
   ],
+  panels: (w) => <WareCalibrationPanel wareId={w.id} kind={w.kind} retired={w.status === 'retired'} />,
   sections,
   updateSchema: wareUpdateInputSchema,
   toForm,

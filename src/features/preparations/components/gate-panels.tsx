@@ -1,7 +1,8 @@
 import type { GateView } from '../types.ts';
 
 /** Each planning gate with why it fired and what to do: blocks red, warnings amber (shared/prep/gates.ts). */
-export function GatePanels({ gates }: { gates: GateView[] }) {
+/** Also shows other records' gates (a volume check's balance gates): any code, the same severity, message and action. */
+export function GatePanels({ gates }: { gates: Array<Pick<GateView, 'severity' | 'message' | 'action'> & { code: string }> }) {
   if (gates.length === 0) return null;
   const ordered = [...gates.filter((g) => g.severity === 'block'), ...gates.filter((g) => g.severity !== 'block')];
   return (

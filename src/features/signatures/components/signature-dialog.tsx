@@ -1,4 +1,4 @@
-import { useEffect, useId, useRef, useState, type FormEvent } from 'react';
+import { useEffect, useId, useRef, useState, type FormEvent, type ReactNode } from 'react';
 import { Button } from '../../../components/ui/button.tsx';
 import { Banner } from '../../../components/ui/feedback.tsx';
 import { ApiError } from '../../../lib/api-client.ts';
@@ -29,6 +29,16 @@ const CONFIRM: Record<SignableMeaning, string> = {
 const REASON_LABEL: Partial<Record<SignableMeaning, string>> = {
   returned: 'What the preparer must change (required)',
   discarded: 'Why the record is discarded (required)',
+};
+
+/**
+ * How a dialog signs: the preparation's signature mutation by default; another signed record (a volume check)
+ * passes its own mutation. Only what the dialog uses of a TanStack mutation.
+ */
+export type SignMutation<T> = {
+  mutate: (input: SignatureInput, callbacks: { onSuccess: (next: T) => void; onError: (e: unknown) => void }) => void;
+  isPending: boolean;
+  reset: () => void;
 };
 
 /** The server's refusal, placed where the signer will look for it. */
@@ -66,10 +76,12 @@ function refusalFrom(e: unknown): Refusal {
  * password again every time (ES-04), a reason where the meaning needs one, and the responsibility statement
  * at a user's first signature (ES-08). Nothing is remembered between openings.
  */
-export function SignatureDialog({
+export function SignatureDialog<T = PreparationDetail>({
   open,
   meaning,
   detail,
+  subject,
+  mutation,
   checklist,
   needsAcknowledgement: needsAckProp,
   onClose,
@@ -77,18 +89,23 @@ export function SignatureDialog({
 }: {
   open: boolean;
   meaning: SignableMeaning;
-  detail: Pick<PreparationDetail, 'identifier' | 'version' | 'materialName' | 'analyteFormula' | 'canSign'> & Partial<Pick<PreparationDetail, 'resultOutOfPlan'>>;
+  detail: Pick<PreparationDetail, 'identifier' | 'version'> & Partial<Pick<PreparationDetail, 'materialName' | 'analyteFormula' | 'canSign' | 'resultOutOfPlan'>>;
+  /** what the record is, after "Applies to <identifier> version v N" (default: the preparation's material and analyte) */
+  subject?: ReactNode;
+  /** how to sign (default: POST /api/preparations/:key/signatures) */
+  mutation?: SignMutation<T>;
   /** for "verified": the ticked checklist, sent as `{ key: true }` */
   checklist?: Record<string, true>;
   /** true when the server has said this is the user's first signature (default: detail.canSign.acknowledgementRequired) */
   needsAcknowledgement?: boolean;
   onClose: () => void;
-  onSigned: (d: PreparationDetail) => void;
+  onSigned: (d: T) => void;
 }) {
   const ref = useRef<HTMLDialogElement>(null);
   const needsAcknowledgement = needsAckProp ?? detail.canSign?.acknowledgementRequired === true;
   const auth = useAuth();
-  const sign = useSignPreparation(detail.identifier);
+  const preparationSign = useSignPreparation(detail.identifier);
+  const sign: SignMutation<T> = mutation ?? (preparationSign as unknown as SignMutation<T>);
   const uid = useId();
   const [password, setPassword] = useState('');
   const [reason, setReason] = useState('');
@@ -187,7 +204,12 @@ export function SignatureDialog({
             <span className="num font-semibold text-ink" data-testid="signature-version">
               v {detail.version}
             </span>{' '}
-            ({detail.materialName} as <span className="num">{detail.analyteFormula}</span>) exactly as it stands now.
+            {subject ?? (
+              <>
+                ({detail.materialName} as <span className="num">{detail.analyteFormula}</span>)
+              </>
+            )}{' '}
+            exactly as it stands now.
           </p>
         </div>
 
