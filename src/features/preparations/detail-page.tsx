@@ -13,6 +13,7 @@ import { StageBadge } from './components/stage-badge.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, calcVersionName, expiryReasonText, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
+import { calibratedVolumeLine } from '../../../shared/prep/calibrated-volume.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
 import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
 import { GravimetricPanel, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
@@ -39,6 +40,9 @@ function MakeUpFacts({ m, tz }: { m: MakeUp; tz?: string }) {
     <Facts
       rows={[
         ['Flask', `${m.flask.identifier} (${m.flask.snapshot.nominalVolumeMl} mL, class ${m.flask.snapshot.class})${m.flask.substituted ? ' — used instead of the planned flask' : ''}`],
+        ...(m.flask.snapshot.calibratedVolume
+          ? ([['Calibrated volume', <span data-testid="make-up-calibrated-volume">{calibratedVolumeLine(m.flask.identifier, m.flask.snapshot.calibratedVolume)}</span>]] as [string, ReactNode][])
+          : []),
         ['Solvent', `${m.solvent.name}, lot ${m.solvent.lot}`],
         ['Solution temperature', `${m.solutionTemperatureC} °C`],
         ['Temperature correction', m.applyTemperatureCorrection ? 'applied (to 20 °C)' : 'not applied'],
@@ -94,6 +98,7 @@ function Snapshot({ d }: { d: PreparationDetail }) {
           testId="snapshot-flask"
           rows={[
             ['Flask', f ? `${f.identifier}, ${f.nominalVolumeMl} mL class ${f.class}${f.toleranceMl ? ` ± ${f.toleranceMl} mL` : ''}` : `free volume ${qty(d.volume)}`],
+            ...(f?.calibratedVolume ? ([['Calibrated volume (plan)', calibratedVolumeLine(f.identifier, f.calibratedVolume)]] as [string, ReactNode][]) : []),
             ['Target', qty(d.target)],
             ['Analyte', d.analyteFormula],
             ['Conditions', `${c.temperatureC} °C, ${c.pressureHPa} hPa, ${c.relativeHumidityPct} % RH${c.source === 'lab-default' ? ' (lab defaults)' : ''}`],
