@@ -13,7 +13,7 @@ import { StageBadge } from './components/stage-badge.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, calcVersionName, expiryReasonText, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
-import { calibratedVolumeLine } from '../../../shared/prep/calibrated-volume.ts';
+import { calibratedVolumeLine, calibratedVolumeShown } from '../../../shared/prep/calibrated-volume.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
 import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
 import { GravimetricPanel, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
@@ -200,7 +200,11 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
           <ResultSummary result={d.result} />
           <p className="mt-3 text-sm text-ink-soft">
             Computed {formatLabTime(d.result.computedAt, tz)} ({calcVersionName(d.result.calcVersion)}) from weighing #{d.result.basedOn.weighingId}
-            {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume {qty(d.result.volume)}.
+            {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume{' '}
+            {d.makeUp?.flask.snapshot.calibratedVolume
+              ? `${calibratedVolumeShown(d.makeUp.flask.snapshot.calibratedVolume)} mL at 20 °C (calibrated, ${d.makeUp.flask.snapshot.calibratedVolume.checkIdentifier})`
+              : qty(d.result.volume)}
+            .
           </p>
         </Panel>
       ) : isMix(d) ? (
