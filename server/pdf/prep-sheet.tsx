@@ -12,6 +12,8 @@ import type { ReactNode } from 'react';
 import type { AuditEntryDto } from '../../shared/schemas/audit.ts';
 import type { BudgetEntry, PreparationDetail, Signature, Weighing } from '../../shared/schemas/preparations.ts';
 import type { DilutionSection, MixComponent, MixSection } from '../../shared/schemas/lineage.ts';
+import type { CalibratedVolume, VolumetricWare } from '../../shared/schemas/inventory.ts';
+import { calibratedVolumeLine, calibratedVolumeShown, twoDigits } from '../../shared/prep/calibrated-volume.ts';
 import { PREVIEW_MARK, UNVERIFIED_MARK } from '../../shared/schemas/printing.ts';
 import { fontFor, PLAIN_SHAPING, TEXT_FONT } from './fonts.ts';
 import { labDateTime, labDay, percent, shortDecimal } from './format.ts';
@@ -191,13 +193,16 @@ function CalculationText({ d }: { d: PreparationDetail }) {
   const net = active?.net.value ?? '';
   const buoyancy = net && new Decimal(net).gt(0) ? new Decimal(r.trueMass.value).div(net).toSignificantDigits(10).toString() : '—';
   const c = r.concentration;
+  const fcv = d.makeUp?.flask.snapshot.calibratedVolume;
   const lines = [
     `1. Balance reading (net, as read): m_read = ${dash(net)} mg (weighing #${r.basedOn.weighingId}).`,
     `2. Air-buoyancy correction: m_true = m_read × B, with B = (1 − ρ_air/ρ_weights) ÷ (1 − ρ_air/ρ_material) = ${buoyancy}, ` +
       `ρ_air = ${active ? airDensityText(active.airDensity) : '—'} (CIPM-2007 from the weighing's room conditions), ρ_weights = ${dash(active?.balance.snapshot.weightDensityGPerMl)} g/mL, ρ_material = ${dash(m.densityGPerMl)} g/mL: ` +
       `m_true = ${shortDecimal(r.trueMass.value, 4)} mg.`,
     `3. Analyte mass: m_true × purity ${m.purity.value} × gravimetric factor ${shortDecimal(d.plan.gravimetricFactor, 8)} (${d.analyteFormula} in ${m.formula}, from atomic weights).`,
-    `4. Divided by the volume V = ${r.volume.value} mL (flask ${d.makeUp?.flask.identifier ?? '—'})` +
+    (fcv
+      ? `4. Divided by the calibrated volume V = ${calibratedVolumeShown(fcv)} mL at 20 °C (flask ${d.makeUp?.flask.identifier ?? '—'}, mean of volume check ${fcv.checkIdentifier}; u(V) = U/k = ${twoDigits(fcv.standardUncertaintyMl)} mL)`
+      : `4. Divided by the volume V = ${r.volume.value} mL (flask ${d.makeUp?.flask.identifier ?? '—'})`) +
       (r.temperatureCorrection ? `, corrected to 20 °C with the factor ${shortDecimal(r.temperatureCorrection.factor, 8)} for ${r.temperatureCorrection.temperatureC} °C` : '') +
       `: c = ${shortDecimal(c.value, 6)} ${c.unit}.`,
     `5. Combined standard uncertainty u(c) = ${shortDecimal(c.standardUncertainty, 6)} ${c.unit} (GUM, budget below); expanded U = k × u = ${shortDecimal(c.expandedUncertainty, 6)} ${c.unit} with k = ${c.k}.`,
@@ -227,7 +232,9 @@ function inputRows(d: PreparationDetail): string[][] {
     ['Balance readability', `${b.readabilityMg} mg`, `balance ${b.identifier} record`],
     ['Room conditions at planning', conditionsText(d.conditionsUsed), d.conditionsUsed.source === 'measured' ? `measured ${d.conditionsUsed.measuredAt}` : 'lab default conditions (settings)'],
     ['Air density at planning', airDensityText(d.plan.airDensity), 'CIPM-2007 equation from the conditions above'],
-    ['Volume', `${d.volume.value} ${d.volume.unit}`, f ? `flask ${f.identifier}, class ${f.class}, tolerance ±${dash(f.toleranceMl)} mL` : 'entered by the planner'],
+    f?.calibratedVolume
+      ? ['Volume (calibrated)', `${calibratedVolumeShown(f.calibratedVolume)} mL at 20 °C`, calibratedVolumeLine(`flask ${f.identifier}`, f.calibratedVolume)]
+      : ['Volume', `${d.volume.value} ${d.volume.unit}`, f ? `flask ${f.identifier}, class ${f.class}, tolerance ±${dash(f.toleranceMl)} mL` : 'entered by the planner'],
     ['Gravimetric factor', shortDecimal(d.plan.gravimetricFactor, 10), 'molar masses from standard atomic weights (IUPAC)'],
   ];
   if (d.makeUp) rows.push(['Solution temperature', `${d.makeUp.solutionTemperatureC} °C`, `entered at make-up by ${d.makeUp.recordedBy.fullName}`]);
@@ -239,8 +246,10 @@ function inputRows(d: PreparationDetail): string[][] {
 /** The dilution section of a dilution or series level's detail; undefined for a stock. */
 const dilutionOf = (d: PreparationDetail): DilutionSection | undefined => (d as PreparationDetail & { dilution?: DilutionSection }).dilution;
 
-const wareText = (w: { identifier: string; kind: string; nominalVolumeMl: string; class?: string | null; toleranceMl?: string | null }) =>
-  `${w.identifier}: ${w.kind.replace(/_/g, ' ')}, ${w.nominalVolumeMl} mL${w.class && w.class !== 'n/a' ? `, class ${w.class}` : ''}${w.toleranceMl ? `, tolerance ±${w.toleranceMl} mL` : ''}`;
+const wareText = (w: { identifier: string; kind: string; nominalVolumeMl: string; class?: string | null; toleranceMl?: string | null; calibratedVolume?: CalibratedVolume }) =>
+  w.calibratedVolume
+    ? `${w.kind.replace(/_/g, ' ')} ${calibratedVolumeLine(w.identifier, w.calibratedVolume)}`
+    : `${w.identifier}: ${w.kind.replace(/_/g, ' ')}, ${w.nominalVolumeMl} mL${w.class && w.class !== 'n/a' ? `, class ${w.class}` : ''}${w.toleranceMl ? `, tolerance ±${w.toleranceMl} mL` : ''}`;
 
 function dilutionInputRows(d: PreparationDetail, dil: DilutionSection): string[][] {
   const p = dil.parent.snapshot;
@@ -252,11 +261,13 @@ function dilutionInputRows(d: PreparationDetail, dil: DilutionSection): string[]
     ['Planned aliquot Vp', `${dil.plannedAliquot.volumeMl} mL`, wareText(dil.plannedAliquot.pipette.snapshot)],
     ['Final volume Vf', `${dil.plannedFinalMl} mL`, f ? wareText(f) : 'planned volume'],
   ];
+  const used = dil.result ? dil.aliquots.find((x) => x.id === dil.result!.basedOn.aliquotId) : undefined;
+  if (used?.pipette.snapshot.calibratedVolume) rows.push(['Aliquot delivered', `${used.volumeMl} mL`, wareText(used.pipette.snapshot)]);
   if (d.makeUp) rows.push(['Solution temperature', `${d.makeUp.solutionTemperatureC} °C`, `entered at make-up by ${d.makeUp.recordedBy.fullName}`]);
   return rows;
 }
 
-function DilutionCalculationText({ dil }: { dil: DilutionSection }) {
+function DilutionCalculationText({ dil, flask }: { dil: DilutionSection; flask?: VolumetricWare | null }) {
   const r = dil.result;
   const c1 = dil.parent.snapshot.concentration;
   if (!r) {
@@ -268,10 +279,16 @@ function DilutionCalculationText({ dil }: { dil: DilutionSection }) {
     );
   }
   const a = dil.aliquots.find((x) => x.id === r.basedOn.aliquotId);
+  const pcv = a?.pipette.snapshot.calibratedVolume;
+  const fcv = flask?.calibratedVolume;
+  const volumesFrom =
+    pcv || fcv
+      ? `volumes from ${[pcv ? `the calibrated volume of ${a!.pipette.identifier} (${pcv.checkIdentifier})` : `the tolerance of ${dash(a?.pipette.identifier)}`, fcv ? `the calibrated volume of ${flask!.identifier} (${fcv.checkIdentifier})` : 'the flask tolerance'].join(' and ')}, u = U/k of each check`
+      : 'volumes from the ware tolerances (triangular for glass, rectangular for piston pipettes)';
   const lines = [
-    `1. Aliquot of the parent ${dil.parent.identifier}: Vp = ${dash(a?.volumeMl)} mL with ${dash(a?.pipette.identifier)} (aliquot #${r.basedOn.aliquotId}).`,
-    `2. Made up to Vf (make-up #${r.basedOn.makeUpId}); c2 = c1 × Vp ÷ Vf with c1 = ${shortDecimal(c1.value, 6)} ${c1.unit} (as used): c2 = ${shortDecimal(r.value, 6)} ${r.unit}.`,
-    `3. Relative variances add: (u(c2)/c2)² = (u(c1)/c1)² + (u(Vp)/Vp)² + (u(Vf)/Vf)², volumes from the ware tolerances (triangular for glass, rectangular for piston pipettes): u(c2) = ${shortDecimal(r.standardUncertainty, 6)} ${r.unit} (relative ${percent(r.relative, 2)}); U = k × u = ${shortDecimal(r.expandedUncertainty, 6)} ${r.unit} with k = ${r.k}.`,
+    `1. Aliquot of the parent ${dil.parent.identifier}: Vp = ${pcv ? `${calibratedVolumeShown(pcv)} mL at 20 °C (calibrated, ${pcv.checkIdentifier}; set ${dash(a?.volumeMl)} mL)` : `${dash(a?.volumeMl)} mL`} with ${dash(a?.pipette.identifier)} (aliquot #${r.basedOn.aliquotId}).`,
+    `2. Made up to Vf${fcv ? ` = ${calibratedVolumeShown(fcv)} mL at 20 °C (calibrated, ${fcv.checkIdentifier})` : ''} (make-up #${r.basedOn.makeUpId}); c2 = c1 × Vp ÷ Vf with c1 = ${shortDecimal(c1.value, 6)} ${c1.unit} (as used): c2 = ${shortDecimal(r.value, 6)} ${r.unit}.`,
+    `3. Relative variances add: (u(c2)/c2)² = (u(c1)/c1)² + (u(Vp)/Vp)² + (u(Vf)/Vf)², ${volumesFrom}: u(c2) = ${shortDecimal(r.standardUncertainty, 6)} ${r.unit} (relative ${percent(r.relative, 2)}); U = k × u = ${shortDecimal(r.expandedUncertainty, 6)} ${r.unit} with k = ${r.k}.`,
     `Reported: ${r.display}. Formula version ${r.calcVersion}.`,
   ];
   return (
@@ -574,6 +591,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
                 k="Flask"
                 v={`${d.makeUp.flask.identifier}: ${d.makeUp.flask.snapshot.nominalVolumeMl} mL, class ${d.makeUp.flask.snapshot.class}, tolerance ±${dash(d.makeUp.flask.snapshot.toleranceMl)} mL${d.makeUp.flask.substituted ? ' (substituted for the planned flask)' : ''}`}
               />
+              {d.makeUp.flask.snapshot.calibratedVolume ? <KV k="Calibrated volume" v={calibratedVolumeLine(d.makeUp.flask.identifier, d.makeUp.flask.snapshot.calibratedVolume)} /> : null}
               <KV k="Solvent" v={`${d.makeUp.solvent.name}${d.makeUp.solvent.snapshot.grade ? `, ${d.makeUp.solvent.snapshot.grade}` : ''}, lot ${d.makeUp.solvent.lot}`} />
               <KV k="Solution temperature" v={`${d.makeUp.solutionTemperatureC} °C; correction to 20 °C ${d.makeUp.applyTemperatureCorrection ? 'applied' : 'not applied (temperature counted as an uncertainty)'}`} />
               <KV k="Made up by" v={`${d.makeUp.recordedBy.fullName}, ${labDateTime(d.makeUp.recordedAt, tz)}`} />
@@ -594,7 +612,7 @@ export function PrepSheetDocument({ data }: { data: PrepSheetData }) {
                 </T>
               ))}
             </View>
-          ) : dil ? <DilutionCalculationText dil={dil} /> : mix ? <MixCalculationText mix={mix} /> : <CalculationText d={d} />}
+          ) : dil ? <DilutionCalculationText dil={dil} flask={d.makeUp?.flask.snapshot ?? null} /> : mix ? <MixCalculationText mix={mix} /> : <CalculationText d={d} />}
         </Section>
 
         <Section title="Uncertainty budget (GUM)">

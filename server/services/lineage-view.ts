@@ -5,9 +5,9 @@
  * recomputation of a dilution from its stored aliquot and make-up (METROLOGY §5.5).
  */
 import { QueryTypes, type Transaction } from 'sequelize';
-import { rectangular, triangular } from '../../shared/calc/index.ts';
+import { D, rectangular, triangular } from '../../shared/calc/index.ts';
 import { DILUTION_TEMPERATURE_HALF_WIDTH_C, repeatabilityFromTolerance, volumetricDilution, type DilutionResult } from '../../shared/calc/dilution.ts';
-import { classATolerance, computeExpiry, type ExpiryResult } from '../../shared/prep/index.ts';
+import { calibratedVolumeLabel, classATolerance, computeExpiry, twoDigits, type ExpiryResult } from '../../shared/prep/index.ts';
 import { selectStabilityRule } from '../../shared/prep/stability-rules.ts';
 import type { VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type { Aliquot, DilutionSection, LineageSection, ParentSnapshot, PreparationKind } from '../../shared/schemas/lineage.ts';
@@ -55,8 +55,16 @@ async function readLineageRow(id: number, transaction?: Transaction): Promise<{ 
 
 export const isDilutionKind = (k: string) => k === 'dilution' || k === 'series_level';
 
-/** Standard uncertainty of a pipette's delivered volume from its tolerance (bulb: triangular, QUAM A1; piston: rectangular, ISO 8655 MPE). */
+/** Written instead of dilution-2 when a calibrated volume was used (lab setting useCalibratedVolumes); same six rows. */
+export const DILUTION_CALC_VERSION_CALIBRATED =
+  'dilution-3 (dilution-2 with the calibrated volume of checked ware: V = mean at 20 °C, u = U/k, repeatability s of the volume check; METROLOGY §5.5)';
+
+/**
+ * Standard uncertainty of a pipette's delivered volume: from the calibrated volume frozen in the snapshot (u = U/k
+ * of its volume check), else from its tolerance (bulb: triangular, QUAM A1; piston: rectangular, ISO 8655 MPE).
+ */
 export function pipetteUncertainty(w: WareDto): { standardUncertainty: string; basis: string } | null {
+  if (w.calibratedVolume) return { standardUncertainty: w.calibratedVolume.standardUncertaintyMl, basis: `calibrated, ${w.calibratedVolume.checkIdentifier}` };
   const tol = w.toleranceMl ?? (w.class === 'A' && w.kind === 'bulb_pipette' ? classATolerance('pipette', w.nominalVolumeMl)?.toleranceMl : undefined);
   if (!tol) return null;
   if (w.kind === 'piston_pipette') return { standardUncertainty: rectangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${w.identifier}, rectangular` };
@@ -65,6 +73,7 @@ export function pipetteUncertainty(w: WareDto): { standardUncertainty: string; b
 
 /** Flask volume u from its tolerance (triangular, QUAM A1), class A table when none is recorded (METROLOGY §4.4). */
 export function flaskUncertainty(w: WareDto): { standardUncertainty: string; basis: string } | null {
+  if (w.calibratedVolume) return { standardUncertainty: w.calibratedVolume.standardUncertaintyMl, basis: `calibrated, ${w.calibratedVolume.checkIdentifier}` };
   const tol = w.toleranceMl ?? (w.class === 'A' ? classATolerance('flask', w.nominalVolumeMl)?.toleranceMl : undefined);
   if (!tol) return null;
   return { standardUncertainty: triangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${w.identifier}, triangular` };
@@ -87,19 +96,28 @@ export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: W
   const up = pipetteUncertainty(pipette);
   const uf = flaskUncertainty(flask);
   if (!up || !uf) throw AppError.validation(`${!up ? pipette.identifier : flask.identifier} has no tolerance recorded`);
-  const tp = toleranceOf(pipette, 'pipette')!;
-  const tf = toleranceOf(flask, 'flask')!;
+  // a calibrated volume (frozen in the snapshot) replaces the nominal volume and the tolerance, and its check's s
+  // replaces the repeatability taken from the tolerance (the lab's own fill-and-weigh s, shared/calc/dilution.ts header)
+  const cp = pipette.calibratedVolume && new D(pipette.calibratedVolume.volumeMl).eq(aliquotMl) ? pipette.calibratedVolume : undefined;
+  const cf = flask.calibratedVolume;
+  const tp = toleranceOf(pipette, 'pipette');
+  const tf = toleranceOf(flask, 'flask');
+  if (!cp && pipette.calibratedVolume) throw AppError.validation(`${pipette.identifier} was calibrated at ${pipette.calibratedVolume.volumeMl} mL, not at ${aliquotMl} mL`);
   return volumetricDilution({
     parent: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
-    aliquot: { volumeMl: aliquotMl, standardUncertainty: up.standardUncertainty },
-    final: { volumeMl: flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty },
+    aliquot: { volumeMl: cp ? cp.meanMl : aliquotMl, standardUncertainty: up.standardUncertainty, ...(cp ? { label: calibratedVolumeLabel('Aliquot volume', cp) } : {}) },
+    final: { volumeMl: cf ? cf.meanMl : flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty, ...(cf ? { label: calibratedVolumeLabel('Flask volume', cf) } : {}) },
     ...(fuller
       ? {
           repeatability: {
-            aliquotMl: repeatabilityFromTolerance(tp).toSignificantDigits(20).toFixed(),
-            finalMl: repeatabilityFromTolerance(tf).toSignificantDigits(20).toFixed(),
-            aliquotLabel: `Aliquot repeatability (from the ±${tp} mL tolerance of ${pipette.identifier}, triangular a/√6; common practice)`,
-            finalLabel: `Flask filling repeatability (from the ±${tf} mL tolerance of ${flask.identifier}, triangular a/√6; common practice)`,
+            aliquotMl: cp ? cp.repeatabilitySdMl : repeatabilityFromTolerance(tp!).toSignificantDigits(20).toFixed(),
+            finalMl: cf ? cf.repeatabilitySdMl : repeatabilityFromTolerance(tf!).toSignificantDigits(20).toFixed(),
+            aliquotLabel: cp
+              ? `Aliquot repeatability (s = ${twoDigits(cp.repeatabilitySdMl)} mL of single deliveries in ${cp.checkIdentifier})`
+              : `Aliquot repeatability (from the ±${tp} mL tolerance of ${pipette.identifier}, triangular a/√6; common practice)`,
+            finalLabel: cf
+              ? `Flask filling repeatability (s = ${twoDigits(cf.repeatabilitySdMl)} mL of fills to the mark in ${cf.checkIdentifier})`
+              : `Flask filling repeatability (from the ±${tf} mL tolerance of ${flask.identifier}, triangular a/√6; common practice)`,
           },
           temperature: {
             betaPerK: fuller.betaPerK,
@@ -153,7 +171,8 @@ export async function dilutionResultOf(p: Preparation, settings: Pick<LabSetting
     return { ...r1, calcVersion: DILUTION_CALC_VERSION_1, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
   }
   const r = dilutionOf(link.snapshot, a.volumeMl, a.pipetteSnapshot, makeUp.flaskSnapshot, settings.roundingRule, dilutionBeta(makeUp.solventSnapshot));
-  return { ...r, calcVersion: DILUTION_CALC_VERSION, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
+  const calibrated = Boolean(a.pipetteSnapshot.calibratedVolume || makeUp.flaskSnapshot.calibratedVolume);
+  return { ...r, calcVersion: calibrated ? DILUTION_CALC_VERSION_CALIBRATED : DILUTION_CALC_VERSION, basedOn: { aliquotId: a.id, makeUpId: makeUp.id } };
 }
 
 /**

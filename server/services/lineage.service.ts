@@ -37,6 +37,7 @@ import { getSettings } from './settings.service.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
 import { failedCheckOf, refuseFailedWare } from './volume-check-gate.ts';
 import { assertFlaskFree, flasksHoldingSolutions } from './flask-occupancy.ts';
+import { withCalibratedVolume } from './calibrated-volume.ts';
 import { activeAliquot, concentrationOf, dilutionBeta, dilutionOf, expiryFor, flaskUncertainty, isDilutionKind, lineageRow, pipetteUncertainty, storeDilutionResult } from './lineage-view.ts';
 
 /** |planned − target|/target above which a dilution is refused (the chosen ware cannot give the target). */
@@ -132,9 +133,14 @@ async function planLevel(parent: ParentSnapshot, level: { target: { value: strin
   if (level.target.unit !== parent.concentration.unit) {
     throw AppError.validation(`Give the target in ${parent.concentration.unit}, the unit of ${parent.identifier}`, { [`${prefix}target.unit`]: `Give the target in ${parent.concentration.unit}, the unit of ${parent.identifier}` });
   }
-  const [pipette, flask] = await Promise.all([pipetteFor(level.pipetteId, `${prefix}pipetteId`), flaskFor(level.flaskId, `${prefix}flaskId`)]);
-  await assertFlaskFree(flask, `${prefix}flaskId`, today); // one flask, one open solution (flask-occupancy.ts)
-  const aliquotMl = aliquotVolume(pipette, level.aliquotMl, `${prefix}aliquotMl`);
+  const [registeredPipette, registeredFlask] = await Promise.all([pipetteFor(level.pipetteId, `${prefix}pipetteId`), flaskFor(level.flaskId, `${prefix}flaskId`)]);
+  const aliquotMl = aliquotVolume(registeredPipette, level.aliquotMl, `${prefix}aliquotMl`);
+  await assertFlaskFree(registeredFlask, `${prefix}flaskId`, today); // one flask, one open solution (flask-occupancy.ts)
+  // calibrated volumes when the lab allows it, frozen in the plan's snapshots (calibrated-volume.ts)
+  const [pipette, flask] = await Promise.all([
+    withCalibratedVolume(registeredPipette, aliquotMl, settings, today),
+    withCalibratedVolume(registeredFlask, registeredFlask.nominalVolumeMl, settings, today),
+  ]);
   if (new D(aliquotMl).gte(flask.nominalVolumeMl)) {
     throw AppError.validation(`A ${aliquotMl} mL aliquot does not fit a ${flask.nominalVolumeMl} mL flask`, { [`${prefix}flaskId`]: `Choose a flask larger than the ${aliquotMl} mL aliquot` });
   }
@@ -295,6 +301,9 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
   if (pipette.status !== 'in_service') throw AppError.validation(`${pipette.identifier} is ${pipette.status.replace(/_/g, ' ')}`, { pipetteIdentifier: `${pipette.identifier} is ${pipette.status.replace(/_/g, ' ')}; scan ${expected}` });
   if (!pipetteUncertainty(pipette)) throw AppError.validation(`${pipette.identifier} has no tolerance recorded`, { pipetteIdentifier: `${pipette.identifier} has no tolerance recorded; record it in the inventory` });
   const volumeMl = aliquotVolume(pipette, input.volumeMl ?? (pipette.kind === 'piston_pipette' ? planned.aliquotMl : undefined), 'volumeMl');
+  const settings = await getSettings();
+  // the pipette's calibrated volume at the volume delivered, when the lab allows it, frozen in the aliquot's snapshot
+  const pipetteUsed = await withCalibratedVolume(pipette, volumeMl, settings, labDate(now, settings.timeZone));
 
   const existing = await DilutionAliquot.findAll({ where: { preparationId: prep.id }, order: [['id', 'ASC']] });
   const active = activeAliquot(existing);
@@ -306,7 +315,6 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
     if (active && active.id !== input.supersedesId) throw AppError.conflict(`Aliquot ${input.supersedesId} has already been superseded; correct the current aliquot ${active.id}`, { supersedesId: `Correct the current aliquot ${active.id}` });
     if (!input.correctionReason) throw AppError.validation('A correction needs a reason', { correctionReason: 'Give the reason for the correction' });
   }
-  const settings = await getSettings();
   const at = now.toISOString();
   await writeTransaction(async (transaction) => {
     const a = await DilutionAliquot.create(
@@ -315,7 +323,7 @@ export async function recordAliquot(key: string, input: AliquotInput, actor: Act
         parentLinkId: link.id,
         pipetteId: pipette.id,
         pipetteIdentifier: pipette.identifier,
-        pipetteSnapshot: pipette,
+        pipetteSnapshot: pipetteUsed,
         volumeMl,
         supersedesId: input.supersedesId ?? null,
         correctionReason: input.supersedesId !== undefined ? input.correctionReason! : null,

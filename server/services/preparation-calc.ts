@@ -7,13 +7,23 @@
  */
 import { calculatePreparation, CalcError, D, roundToDecimals, triangular, type CalcPreparationResponse, type PreparationRequest, type RoundingRule } from '../../shared/calc/index.ts';
 import { withSolutionTemperature } from '../../shared/calc/solution-temperature.ts';
-import { classATolerance, decimalsOf, readingWindow } from '../../shared/prep/index.ts';
+import { calibratedVolumeLabel, calibratedVolumeShown, classATolerance, decimalsOf, readingWindow } from '../../shared/prep/index.ts';
 import { netWeighingUncertainty } from '../../shared/prep/weighing-uncertainty.ts';
 import type { Balance as BalanceDto, ReferenceMaterial as MaterialDto, Solvent as SolventDto, VolumetricWare as WareDto } from '../../shared/schemas/inventory.ts';
 import type { ConditionsUsed, PreparationResult } from '../../shared/schemas/preparations.ts';
 
 /** Version of the calculation chain stored with every plan and result (REQUIREMENTS TR-09, VA-02). */
 export const CALC_VERSION = 'tarebook-calc/1';
+/**
+ * Written instead when the flask's calibrated volume was used (lab setting useCalibratedVolumes): the same model
+ * and budget rows, with V = the volume check's mean at 20 °C and u(V) = U/k. Records without one keep tarebook-calc/1.
+ */
+export const CALC_VERSION_CALIBRATED_VOLUME = 'tarebook-calc/2 (tarebook-calc/1 with the flask volume from its volume check: mean at 20 °C, u = U/k)';
+
+/** The calc version of a plan or result with this flask. */
+export function calcVersionFor(flask: WareDto | null | undefined): string {
+  return flask?.calibratedVolume ? CALC_VERSION_CALIBRATED_VOLUME : CALC_VERSION;
+}
 
 /** Water's expansion coefficient used for the temperature uncertainty when the solvent has none (QUAM A1: 2.1e-4 /K). */
 export const FALLBACK_BETA_PER_K = '0.00021';
@@ -55,8 +65,17 @@ export function runCore(req: PreparationRequest, ctx: CalcContext): CalcPreparat
   }
 }
 
-/** Standard uncertainty of a flask's volume: u stored? else its tolerance (snapshot, else ISO 1042 class A), triangular. */
-export function flaskVolumeUncertainty(flask: WareDto): { standardUncertainty?: string; basis: string } {
+/**
+ * The flask's volume and its standard uncertainty: the calibrated volume frozen in the snapshot (mean at 20 °C,
+ * u = U/k of its volume check), else the nominal volume with its tolerance (snapshot, else ISO 1042 class A), triangular.
+ */
+export function flaskVolumeUncertainty(flask: WareDto): { volumeMl: string; standardUncertainty?: string; basis: string; label?: string } {
+  const cv = flask.calibratedVolume;
+  if (cv) return { volumeMl: cv.meanMl, standardUncertainty: cv.standardUncertaintyMl, basis: `calibrated, ${cv.checkIdentifier}`, label: calibratedVolumeLabel('Flask volume', cv) };
+  return { volumeMl: flask.nominalVolumeMl, ...toleranceUncertainty(flask) };
+}
+
+function toleranceUncertainty(flask: WareDto): { standardUncertainty?: string; basis: string } {
   const tol = flask.toleranceMl ?? (flask.class === 'A' ? classATolerance('flask', flask.nominalVolumeMl)?.toleranceMl : undefined);
   if (!tol) return { basis: 'no tolerance recorded: the core uses ISO 1042 class A for listed volumes, else half the last digit' };
   return { standardUncertainty: triangular(tol).toSignificantDigits(20).toFixed(), basis: `tolerance ±${tol} mL of ${flask.identifier}, triangular` };
@@ -157,6 +176,7 @@ export function planNumbers(i: CoreInputs, windowPct: string, ctx: CalcContext):
  * 100 mL ± 0.10 mL → "100.00" (a bare "100" would count as one significant figure) [common practice].
  */
 export function volumeAsKnown(flask: WareDto): string {
+  if (flask.calibratedVolume) return calibratedVolumeShown(flask.calibratedVolume);
   const tol = flask.toleranceMl ?? (flask.class === 'A' ? classATolerance('flask', flask.nominalVolumeMl)?.toleranceMl : undefined);
   if (!tol) return flask.nominalVolumeMl;
   const decimals = tol.includes('.') ? tol.length - tol.indexOf('.') - 1 : 0;
@@ -181,7 +201,7 @@ export function computeResult(i: ResultInputs): PreparationResult & { calcReques
     material: i.material,
     analyteFormula: i.analyteFormula,
     target: i.target,
-    volume: { value: i.makeUp.flask.nominalVolumeMl, unit: 'mL', ...(vu.standardUncertainty ? { standardUncertainty: vu.standardUncertainty } : {}) },
+    volume: { value: vu.volumeMl, unit: 'mL', ...(vu.standardUncertainty ? { standardUncertainty: vu.standardUncertainty } : {}) },
     balance: i.weighing.balance,
     air: i.weighing.conditions,
     rounding: i.rounding,
@@ -206,10 +226,10 @@ export function computeResult(i: ResultInputs): PreparationResult & { calcReques
     ],
   });
   const result: PreparationResult & { calcRequest: PreparationRequest } = {
-    calcVersion: CALC_VERSION,
+    calcVersion: calcVersionFor(i.makeUp.flask),
     computedAt: i.computedAt,
     trueMass: { value: actual.trueMass.value, unit: 'mg' },
-    volume: { value: i.makeUp.flask.nominalVolumeMl, unit: 'mL' },
+    volume: { value: vu.volumeMl, unit: 'mL' },
     concentration: {
       value: t.value,
       unit: actual.concentration.unit,
@@ -221,7 +241,7 @@ export function computeResult(i: ResultInputs): PreparationResult & { calcReques
     },
     budget: t.budget.map((r) => ({
       input: r.input,
-      label: r.input === 'volume' ? `Volume (${vu.basis})` : r.label,
+      label: r.input === 'volume' ? (vu.label ?? `Volume (${vu.basis})`) : r.label,
       value: r.value,
       unit: r.unit,
       standardUncertainty: r.standardUncertainty,

@@ -33,7 +33,7 @@ import { Balance, DilutionAliquot, GravimetricReading, MakeUp, Preparation, Prep
 import { diffFields, writeTransaction } from '../db/transaction.ts';
 import { AppError } from '../errors/app-error.ts';
 import { recordAudit } from './audit.service.ts';
-import { CALC_VERSION, computeResult, flaskVolumeUncertainty, planNumbers, readingInMg, runCore, coreRequest, type CoreInputs } from './preparation-calc.ts';
+import { calcVersionFor, computeResult, flaskVolumeUncertainty, planNumbers, readingInMg, runCore, coreRequest, type CoreInputs } from './preparation-calc.ts';
 import { preparationHazards } from './preparation-hazards.ts';
 import { labDate as sharedLabDate } from '../../shared/prep/lab-time.ts';
 import { assertFlaskFree } from './flask-occupancy.ts';
@@ -44,7 +44,8 @@ import { SEALED_STATUSES, sealStates, showSealBroken } from './record-integrity.
 import { dataEntryMode } from './preparation-status.ts';
 import { shownStatus } from '../../shared/schemas/expiry.ts';
 import { expirySection, statusWhere } from './expiry-extension.service.ts';
-import { assertWeighable, lineageExpiry, lineageSection, storeDilutionResult } from './lineage-view.ts';
+import { assertWeighable, lineageExpiry, lineageRow, lineageSection, storeDilutionResult } from './lineage-view.ts';
+import { withCalibratedVolume } from './calibrated-volume.ts';
 import { isGravimetricPlan } from './gravimetric-calc.ts';
 
 export interface Actor {
@@ -134,7 +135,9 @@ async function loadPlanContext(input: PlanInput, now: Date): Promise<PlanContext
     }
   }
   if (Object.keys(fields).length) throw AppError.validation(Object.keys(fields).length === 1 ? Object.values(fields)[0]! : 'Some choices are not valid', fields);
-  const flask = f ? wareSnapshot(f) : null;
+  const today = labDate(now, settings.timeZone);
+  // the flask's calibrated volume when the lab allows it (frozen in the plan's snapshot; calibrated-volume.ts)
+  const flask = f ? await withCalibratedVolume(wareSnapshot(f), f.nominalVolumeMl, settings, today) : null;
   const volume = flask ? { value: flask.nominalVolumeMl, unit: 'mL' } : input.volume!;
   const [balances, ware] = await Promise.all([Balance.findAll({ order: [['identifier', 'ASC']] }), VolumetricWare.findAll({ where: { kind: 'volumetric_flask' }, order: [['identifier', 'ASC']] })]);
   return {
@@ -145,7 +148,7 @@ async function loadPlanContext(input: PlanInput, now: Date): Promise<PlanContext
     volumeMl: convertVolume(volume.value, volume.unit, 'mL').toString(),
     conditions: resolveConditions(input.conditions, settings, now),
     settings,
-    today: labDate(now, settings.timeZone),
+    today,
     otherBalances: balances.map(balanceSnapshot),
     flasks: ware.map(wareSnapshot),
   };
@@ -166,12 +169,16 @@ async function evaluatePlan(input: PlanInput, now: Date): Promise<Evaluated> {
     material: ctx.material,
     analyteFormula: input.analyteFormula,
     target: input.target,
-    volume: { ...ctx.volume, ...(vu?.standardUncertainty ? { standardUncertainty: vu.standardUncertainty } : {}) },
+    volume: { ...(vu && ctx.flask?.calibratedVolume ? { value: vu.volumeMl, unit: 'mL' } : ctx.volume), ...(vu?.standardUncertainty ? { standardUncertainty: vu.standardUncertainty } : {}) },
     balance: ctx.balance,
     air: ctx.conditions,
     rounding: ctx.settings.roundingRule,
   };
   const numbers = planNumbers(core, ctx.settings.readingWindowPct, { kind: 'plan', usesFlask: ctx.flask !== null });
+  if (vu?.label) {
+    // the planned budget names the check the flask's volume comes from, as the result will
+    numbers.calc.planned.budget = numbers.calc.planned.budget.map((r) => (r.input === 'volume' ? { ...r, label: vu.label! } : r));
+  }
   const flaskOptions = [...new Set(ctx.flasks.filter((w) => w.status === 'in_service').map((w) => w.nominalVolumeMl))].sort((a, b) => new D(a).cmp(b));
   const coreGates = evaluateGates({
     today: ctx.today,
@@ -271,7 +278,7 @@ export async function createPreparation(input: CreatePreparationInput, actor: Ac
           expectedUncertainty: e.numbers.expectedUncertainty,
           calc: e.numbers.calc,
           calcRequest: e.numbers.calcRequest,
-          calcVersion: CALC_VERSION,
+          calcVersion: calcVersionFor(e.ctx.flask),
         },
         gates: e.gates,
         result: null,
@@ -729,7 +736,11 @@ export async function recordMakeUp(key: string, input: MakeUpInput, actor: Actor
   const plannedMl = convertVolume(prep.volumeValue, prep.volumeUnit, 'mL');
   const expected = plannedFlask ? `${plannedFlask.identifier} or another in-service ${plannedFlask.nominalVolumeMl} mL volumetric flask` : `an in-service ${plannedMl.toString()} mL volumetric flask`;
   if (!f) throw AppError.validation(`No flask ${input.flaskIdentifier} is registered`, { flaskIdentifier: `No flask ${input.flaskIdentifier} is registered; scan ${expected}` });
-  const flask = wareSnapshot(f);
+  const registered = wareSnapshot(f);
+  // the flask's calibrated volume when the lab allows it, frozen in the make-up's snapshot (a stock or a dilution;
+  // a mix keeps the tolerance budget of mix-1)
+  const usesCalibration = registered.kind === 'volumetric_flask' && registered.status === 'in_service' && (await lineageRow(prep.id)).kind !== 'mix';
+  const flask = usesCalibration ? await withCalibratedVolume(registered, registered.nominalVolumeMl, settings, today) : registered;
   if (flask.kind !== 'volumetric_flask') {
     throw AppError.validation(`${flask.identifier} is not a volumetric flask`, { flaskIdentifier: `${flask.identifier} is a ${flask.kind.replace(/_/g, ' ')}; scan ${expected}` });
   }

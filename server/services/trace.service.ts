@@ -425,7 +425,7 @@ async function backwardOf(root: Preparation, timeZone: string): Promise<Backward
         detail: { identifier: f.identifier, nominalVolumeMl: f.nominalVolumeMl, class: f.class, toleranceMl: f.toleranceMl, statusNow: currentFlask ? wareStatus({ status: currentFlask.status, class: currentFlask.wareClass }) : 'unknown' },
       });
       g.edge({ from: fid, to: pid, relation: `made up in${older}`, at: mu.recordedAt, statusAtUse: wareStatus(f) });
-      await traceVolumeCheck(g, fid, mu.flaskId, mu.recordedAt);
+      await traceVolumeCheck(g, fid, mu.flaskId, mu.recordedAt, f.calibratedVolume ? { calibratedVolume: f.calibratedVolume, preparationNodeId: pid, what: `flask${older}` } : undefined);
       rows.push({
         level,
         link: 'volumetric_ware',
@@ -435,7 +435,7 @@ async function backwardOf(root: Preparation, timeZone: string): Promise<Backward
         usedAt: mu.recordedAt,
         statusWhenUsed: wareStatus(f),
         statusNow: currentFlask ? wareStatus({ status: currentFlask.status, class: currentFlask.wareClass }) : 'unknown',
-        detail: `tolerance ${f.toleranceMl ?? '—'} mL${mu.substituted ? '; substituted for the planned flask' : ''}`,
+        detail: `tolerance ${f.toleranceMl ?? '—'} mL${f.calibratedVolume ? `; calibrated volume used, from ${f.calibratedVolume.checkIdentifier}` : ''}${mu.substituted ? '; substituted for the planned flask' : ''}`,
       });
       const s = mu.solventSnapshot;
       const currentSolvent = await Solvent.findByPk(mu.solventId);
@@ -555,6 +555,7 @@ async function backwardOf(root: Preparation, timeZone: string): Promise<Backward
         detail: { identifier: a.pipetteIdentifier, statusNow },
       });
       g.edge({ from: wid, to: pid, relation: 'aliquot delivered with', at: a.recordedAt, statusAtUse });
+      if (snap.calibratedVolume) await traceVolumeCheck(g, wid, a.pipetteId, a.recordedAt, { calibratedVolume: snap.calibratedVolume, preparationNodeId: pid, what: `aliquot ${a.id}` });
       g.edge({ from: userNode(g, benchUsers, a.recordedBy), to: pid, relation: 'aliquot delivered by', at: a.recordedAt });
       rows.push({
         level,
@@ -565,7 +566,7 @@ async function backwardOf(root: Preparation, timeZone: string): Promise<Backward
         usedAt: a.recordedAt,
         statusWhenUsed: statusAtUse,
         statusNow,
-        detail: `aliquot ${a.id}`,
+        detail: `aliquot ${a.id}${snap.calibratedVolume ? `; calibrated volume used, from ${snap.calibratedVolume.checkIdentifier}` : ''}`,
       });
     }
   }

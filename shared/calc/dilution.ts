@@ -95,10 +95,10 @@ function finish(value: Dec, uc: Dec, unit: string, budget: BudgetRow[], k: DecIn
 export interface VolumetricDilutionInput {
   /** the parent's concentration (any unit; the result has the same unit) and its standard uncertainty */
   parent: { value: DecInput; unit: string; standardUncertainty: DecInput };
-  /** delivered aliquot, mL, with its standard uncertainty (calibration, and repeatability if known) */
-  aliquot: { volumeMl: DecInput; standardUncertainty: DecInput };
-  /** final (flask) volume, mL, with its standard uncertainty */
-  final: { volumeMl: DecInput; standardUncertainty: DecInput };
+  /** delivered aliquot, mL, with its standard uncertainty (calibration, and repeatability if known); label: the budget row's name (default "Aliquot volume") */
+  aliquot: { volumeMl: DecInput; standardUncertainty: DecInput; label?: string };
+  /** final (flask) volume, mL, with its standard uncertainty; label: the budget row's name (default "Final volume") */
+  final: { volumeMl: DecInput; standardUncertainty: DecInput; label?: string };
   /** standard uncertainties (mL) of the aliquot's delivery and the flask's filling from repeat to repeat; omitted: not in the budget */
   repeatability?: { aliquotMl: DecInput; finalMl: DecInput; aliquotLabel?: string; finalLabel?: string };
   /** the temperature difference between aliquot and final solution, 0 ± u(ΔT) °C, with the liquid's β (1/K); omitted: not in the budget */
@@ -128,8 +128,8 @@ export function volumetricDilution(i: VolumetricDilutionInput): DilutionResult {
   }
   const inputs: Record<string, UncertainInput> = {
     parent: { value: i.parent.value, standardUncertainty: i.parent.standardUncertainty, label: 'Parent concentration', unit: i.parent.unit },
-    aliquot: { value: i.aliquot.volumeMl, standardUncertainty: i.aliquot.standardUncertainty, label: 'Aliquot volume', unit: 'mL' },
-    final: { value: i.final.volumeMl, standardUncertainty: i.final.standardUncertainty, label: 'Final volume', unit: 'mL' },
+    aliquot: { value: i.aliquot.volumeMl, standardUncertainty: i.aliquot.standardUncertainty, label: i.aliquot.label ?? 'Aliquot volume', unit: 'mL' },
+    final: { value: i.final.volumeMl, standardUncertainty: i.final.standardUncertainty, label: i.final.label ?? 'Final volume', unit: 'mL' },
   };
   if (i.repeatability) {
     inputs.aliquotRepeatability = { value: '0', standardUncertainty: i.repeatability.aliquotMl, label: i.repeatability.aliquotLabel ?? 'Aliquot repeatability', unit: 'mL' };

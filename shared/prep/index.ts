@@ -5,3 +5,4 @@ export * from './identifiers.ts';
 export * from './expiry.ts';
 export * from './volume.ts';
 export * from './gates.ts';
+export * from './calibrated-volume.ts';

@@ -87,6 +87,32 @@ export const balanceSchema = z.object({
 });
 export type Balance = z.infer<typeof balanceSchema>;
 
+/**
+ * The calibrated volume of a ware item, frozen into a preparation's flask or pipette snapshot when the lab setting
+ * `useCalibratedVolumes` is on and the item's latest verified volume check passed, is in date and tested the volume
+ * used. The budget then takes V = the check's mean at 20 °C and u(V) = U/k of the check instead of the nominal
+ * volume and the class tolerance; a later check never changes it (the snapshot keeps this one).
+ */
+export const calibratedVolumeSchema = z.object({
+  checkId: z.number().int(),
+  /** VC-YYYY-NNNN */
+  checkIdentifier: z.string(),
+  /** the volume the check tested and the record uses (nominal, or a piston pipette's setting), mL */
+  volumeMl: dec,
+  /** mean volume at 20 °C, mL, as the check stored it */
+  meanMl: dec,
+  /** expanded uncertainty U of the mean and its coverage factor k, as the check stored them */
+  expandedUncertaintyMl: dec,
+  k: dec,
+  /** u(V) = U/k, mL */
+  standardUncertaintyMl: dec,
+  /** standard deviation s of single deliveries (or fills to the mark) in the check, mL */
+  repeatabilitySdMl: dec,
+  verifiedOn: z.string(),
+  nextDueOn: z.string(),
+});
+export type CalibratedVolume = z.infer<typeof calibratedVolumeSchema>;
+
 export const volumetricWareSchema = z.object({
   id: z.number().int(),
   identifier: z.string(),
@@ -102,6 +128,8 @@ export const volumetricWareSchema = z.object({
   retiredReason: z.string().nullable(),
   createdAt: z.string(),
   updatedAt: z.string(),
+  /** only in a preparation's snapshot, only when a calibrated volume was used (absent in the register and in older snapshots) */
+  calibratedVolume: calibratedVolumeSchema.optional(),
 });
 export type VolumetricWare = z.infer<typeof volumetricWareSchema>;
 

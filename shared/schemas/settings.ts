@@ -68,6 +68,12 @@ export const labSettingsSchema = z.object({
   sessionIdleMinutes: z.number({ error: 'Enter a whole number of minutes' }).int('Enter a whole number of minutes').min(5, 'Use 5 to 480 minutes').max(480, 'Use 5 to 480 minutes').optional(),
   /** How prepared solutions are stored, printed on their labels (a stability rule may say otherwise; unset: DEFAULT_SOLUTION_STORAGE). */
   solutionStorage: lineText({ error: 'Say how prepared solutions are stored' }).trim().min(1, 'Say how prepared solutions are stored').max(120, 'Use at most 120 characters').optional(),
+  /**
+   * Budgets of new preparations use the calibrated volume of a flask or pipette (the mean at 20 °C and u = U/k of
+   * its latest verified, passed, in-date volume check at the volume used) instead of the nominal volume and the
+   * class tolerance (unset: off). Records already written keep the volumes they were computed with.
+   */
+  useCalibratedVolumes: z.boolean({ error: 'Choose on or off' }).optional(),
 });
 
 /** Used when settings.sessionIdleMinutes is unset (common practice for shared lab terminals: 30 min). */

@@ -42,6 +42,7 @@ const NAV: NavItem[] = [
   { to: '/sessions', label: 'Active sessions', roles: ['qa', 'admin'], testId: 'nav-sessions' },
   { to: '/admin/users', label: 'Users', roles: ['admin'], testId: 'nav-users' },
   { to: '/admin/outbox', label: 'Outbox', roles: ['admin'], testId: 'nav-outbox' },
+  { to: '/admin/settings', label: 'Lab settings', roles: ['admin'], testId: 'nav-settings' },
   { to: '/admin/label-templates', label: 'Label templates', roles: ['admin'], testId: 'nav-label-templates' },
 ];
 

@@ -112,6 +112,7 @@ export const router = createBrowserRouter([
                 lazy: async () => ({ Component: (await import('../features/users/users-page.tsx')).UsersPage }),
               },
               { path: 'outbox', lazy: async () => ({ Component: (await import('../features/outbox/outbox-page.tsx')).OutboxPage }) },
+              { path: 'settings', lazy: async () => ({ Component: (await import('../features/settings/settings-page.tsx')).SettingsPage }) },
               {
                 path: 'label-templates',
                 lazy: async () => ({ Component: (await import('../features/printing/label-templates-page.tsx')).LabelTemplatesPage }),

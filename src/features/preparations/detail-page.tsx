@@ -13,6 +13,7 @@ import { StageBadge } from './components/stage-badge.tsx';
 import { WeighingList } from './components/weighing-list.tsx';
 import { balanceDecimals, calcVersionName, expiryReasonText, formatLabTime, qty, statusLabel } from './format.ts';
 import type { MakeUp, PreparationDetail } from './types.ts';
+import { calibratedVolumeLine, calibratedVolumeShown } from '../../../shared/prep/calibrated-volume.ts';
 import { SignActions } from '../signatures/components/sign-actions.tsx';
 import { DilutionActions, DilutionPlanPanel, LineagePanel, isDilution } from '../lineage/components/lineage-section.tsx';
 import { GravimetricPanel, isGravimetric } from '../lineage/components/gravimetric-bench.tsx';
@@ -40,6 +41,9 @@ function MakeUpFacts({ m, tz }: { m: MakeUp; tz?: string }) {
     <Facts
       rows={[
         ['Flask', `${m.flask.identifier} (${m.flask.snapshot.nominalVolumeMl} mL, class ${m.flask.snapshot.class})${m.flask.substituted ? ' — used instead of the planned flask' : ''}`],
+        ...(m.flask.snapshot.calibratedVolume
+          ? ([['Calibrated volume', <span data-testid="make-up-calibrated-volume">{calibratedVolumeLine(m.flask.identifier, m.flask.snapshot.calibratedVolume)}</span>]] as [string, ReactNode][])
+          : []),
         ['Solvent', `${m.solvent.name}, lot ${m.solvent.lot}`],
         ['Solution temperature', `${m.solutionTemperatureC} °C`],
         ['Temperature correction', m.applyTemperatureCorrection ? 'applied (to 20 °C)' : 'not applied'],
@@ -95,6 +99,7 @@ function Snapshot({ d }: { d: PreparationDetail }) {
           testId="snapshot-flask"
           rows={[
             ['Flask', f ? `${f.identifier}, ${f.nominalVolumeMl} mL class ${f.class}${f.toleranceMl ? ` ± ${f.toleranceMl} mL` : ''}` : `free volume ${qty(d.volume)}`],
+            ...(f?.calibratedVolume ? ([['Calibrated volume (plan)', calibratedVolumeLine(f.identifier, f.calibratedVolume)]] as [string, ReactNode][]) : []),
             ['Target', qty(d.target)],
             ['Analyte', d.analyteFormula],
             ['Conditions', `${c.temperatureC} °C, ${c.pressureHPa} hPa, ${c.relativeHumidityPct} % RH${c.source === 'lab-default' ? ' (lab defaults)' : ''}`],
@@ -196,7 +201,11 @@ export function DetailPage({ verification }: { verification?: (d: PreparationDet
           <ResultSummary result={d.result} />
           <p className="mt-3 text-sm text-ink-soft">
             Computed {formatLabTime(d.result.computedAt, tz)} ({calcVersionName(d.result.calcVersion)}) from weighing #{d.result.basedOn.weighingId}
-            {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume {qty(d.result.volume)}.
+            {d.result.basedOn.makeUpId ? ` and make-up #${d.result.basedOn.makeUpId}` : ''}; volume{' '}
+            {d.makeUp?.flask.snapshot.calibratedVolume
+              ? `${calibratedVolumeShown(d.makeUp.flask.snapshot.calibratedVolume)} mL at 20 °C (calibrated, ${d.makeUp.flask.snapshot.calibratedVolume.checkIdentifier})`
+              : qty(d.result.volume)}
+            .
           </p>
         </Panel>
       ) : isMix(d) ? (

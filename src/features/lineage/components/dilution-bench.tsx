@@ -18,6 +18,7 @@ import { useAuth } from '../../auth/use-auth.ts';
 import { aliquotFieldsFor, wareKindLabel } from './aliquot-fields.ts';
 import { AliquotForm } from './aliquot-form.tsx';
 import { HazardCautions } from '../../preparations/components/hazard-cautions.tsx';
+import { calibratedVolumeLine } from '../../../../shared/prep/calibrated-volume.ts';
 
 /** The aliquot that counts: the newest one nothing supersedes. */
 export function currentAliquot(aliquots: Aliquot[]): Aliquot | undefined {
@@ -55,6 +56,11 @@ function AliquotRecord({ a, tz, current }: { a: Aliquot; tz?: string; current: b
       <p className="mt-1" data-testid={current ? 'aliquot-current-by' : undefined}>
         Recorded by {a.recordedBy.fullName}, {formatLabTime(a.recordedAt, tz)}
       </p>
+      {a.pipette.snapshot.calibratedVolume ? (
+        <p className="num mt-1" data-testid={current ? 'aliquot-current-calibrated' : undefined}>
+          {calibratedVolumeLine(a.pipette.identifier, a.pipette.snapshot.calibratedVolume)}
+        </p>
+      ) : null}
       {a.correctionReason ? <p className="mt-1">Corrects #{a.supersedesId}: {a.correctionReason}</p> : null}
       {!current ? <p className="mt-1 text-sm font-semibold text-ink-soft">superseded by #{a.supersededById}</p> : null}
     </li>

@@ -14,6 +14,8 @@ import { traceQueries } from '../../trace/api/trace-api.ts';
 import { GraphLegend, LineageGraph, LineageList, mergeGraphs } from '../../trace/components/lineage-graph.tsx';
 import { subjectNodeId } from '../../trace/types.ts';
 import type { LineageSection as Lineage } from '../types.ts';
+import { BudgetTable } from '../../calculate/components/budget-table.tsx';
+import { calibratedVolumeLine } from '../../../../shared/prep/calibrated-volume.ts';
 
 const KIND_LABEL: Record<string, string> = { stock: 'Stock solution', dilution: 'Dilution', series_level: 'Series level', mix: 'Mix' };
 
@@ -29,6 +31,13 @@ export function DilutionPlanPanel({ d }: { d: PreparationDetail }) {
   const dil = (d as PreparationDetail & Lineage).dilution;
   if (!dil) return null;
   const r = dil.result;
+  // the calibrated volumes the budget used (frozen in the aliquot's and the make-up's snapshots), else those planned
+  const aliquot = r ? dil.aliquots.find((a) => a.id === r.basedOn.aliquotId) : undefined;
+  const pipette = aliquot ? aliquot.pipette : dil.plannedAliquot.pipette;
+  const flask = d.makeUp?.flask.snapshot ?? d.snapshot.flask;
+  const calibrated: [string, string][] = [];
+  if (pipette.snapshot.calibratedVolume) calibrated.push([r ? 'Pipette, calibrated' : 'Pipette, calibrated (plan)', calibratedVolumeLine(pipette.identifier, pipette.snapshot.calibratedVolume)]);
+  if (flask?.calibratedVolume) calibrated.push([r ? 'Flask, calibrated' : 'Flask, calibrated (plan)', calibratedVolumeLine(flask.identifier, flask.calibratedVolume)]);
   return (
     <Panel title={r ? 'Result' : 'Expected result'} id="detail-dilution">
       <p className="num text-2xl font-semibold" data-testid="detail-dilution-expected">
@@ -49,7 +58,21 @@ export function DilutionPlanPanel({ d }: { d: PreparationDetail }) {
         <dd className="num">{percent((r ?? dil.planned).relative, 2)}</dd>
         <dt className="font-semibold text-ink-soft">Aliquots recorded</dt>
         <dd>{dil.aliquots.length ? dil.aliquots.map((a) => `${a.volumeMl} mL with ${a.pipette.identifier}${a.supersededById ? ' (superseded)' : ''}`).join('; ') : 'none yet'}</dd>
+        {calibrated.map(([k, line]) => (
+          <div key={k} className="contents">
+            <dt className="font-semibold text-ink-soft">{k}</dt>
+            <dd className="num" data-testid="dilution-calibrated-volume">
+              {line}
+            </dd>
+          </div>
+        ))}
       </dl>
+      {r && r.budget.length ? (
+        <div className="mt-4">
+          <h3 className="mb-2 text-lg font-bold">Uncertainty budget</h3>
+          <BudgetTable rows={r.budget.map((b) => ({ ...b, unit: b.input === 'parent' ? r.unit : b.input === 'temperature' ? '°C' : 'mL' }))} outputUnit={r.unit} />
+        </div>
+      ) : null}
       <p className="mt-3 text-ink-soft">
         {r ? `Recomputed from aliquot #${r.basedOn.aliquotId} and make-up #${r.basedOn.makeUpId} (${calcVersionName(r.calcVersion)}).` : 'The concentration is recomputed from the recorded aliquot and make-up.'}
       </p>
