@@ -91,8 +91,8 @@ export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: W
   const tf = toleranceOf(flask, 'flask')!;
   return volumetricDilution({
     parent: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
-    aliquot: { volumeMl: aliquotMl, standardUncertainty: up.standardUncertainty },
-    final: { volumeMl: flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty },
+    aliquot: { volumeMl: aliquotMl, standardUncertainty: up.standardUncertainty, distribution: pipette.kind === 'piston_pipette' ? 'rectangular' : 'triangular' },
+    final: { volumeMl: flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty, distribution: 'triangular' },
     ...(fuller
       ? {
           repeatability: {
@@ -100,6 +100,7 @@ export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: W
             finalMl: repeatabilityFromTolerance(tf).toSignificantDigits(20).toFixed(),
             aliquotLabel: `Aliquot repeatability (from the ±${tp} mL tolerance of ${pipette.identifier}, triangular a/√6; common practice)`,
             finalLabel: `Flask filling repeatability (from the ±${tf} mL tolerance of ${flask.identifier}, triangular a/√6; common practice)`,
+            distribution: 'triangular',
           },
           temperature: {
             betaPerK: fuller.betaPerK,
