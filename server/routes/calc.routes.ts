@@ -42,9 +42,9 @@ function parseRequest(body: unknown): CalcPreparationRequest {
 export function calcRouter(): Router {
   const router = Router();
   // ZodError → 400 validation_failed; CalcError → 400 with fields[field] (error middleware).
-  router.post('/calc/preparation', requireAuth, (req, res) => {
+  router.post('/calc/preparation', requireAuth, async (req, res) => {
     const input = parseRequest(req.body);
-    res.json(previewPreparation(input));
+    res.json(await previewPreparation(input));
   });
   return router;
 }

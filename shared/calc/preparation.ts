@@ -20,7 +20,7 @@ import { buoyancyFactor } from './buoyancy.ts';
 import { gravimetricFactorModel, molarMassFromAtoms, defaultWeights, parseFormula } from './molar-mass.ts';
 import { convertDensity, convertMass, convertVolume, unitKind, normaliseUnit, type UnitKind } from './units.ts';
 import { propagate, rectangular, triangular, fromExpanded, type BudgetRow, type InputDistribution, type UncertainInput } from './uncertainty.ts';
-import type { McModel } from './monte-carlo.ts';
+import type { McModel, McResultText } from './monte-carlo.ts';
 import { formatResult, lastDigitUnit, significantFigureResult, type RoundingRule } from './rounding.ts';
 
 export interface QuantityText {
@@ -93,6 +93,8 @@ export interface CalcPreparationResponse {
       significantFigures: { value: string; significantFigures: number; limitedBy: string };
     };
     budget: BudgetRowText[];
+    /** the Monte Carlo propagation of the same model (JCGM 101), when the request asks for it */
+    monteCarlo?: McResultText;
   };
 }
 
