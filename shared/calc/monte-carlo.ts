@@ -149,16 +149,18 @@ export function drawOutput(m: McModel, trials: number, seed: number): Float64Arr
   const u = m.inputs.map((i) => i.standardUncertainty.toNumber());
   const kind = m.inputs.map((i) => (i.standardUncertainty.isZero() ? 0 : i.distribution === 'normal' ? 1 : i.distribution === 'rectangular' ? 2 : 3));
   const halfWidth = m.inputs.map((i, j) => (i.distribution === 'rectangular' ? u[j] * Math.sqrt(3) : i.distribution === 'triangular' ? u[j] * Math.sqrt(6) : 0));
-  const x: Record<string, number> = {};
-  for (let j = 0; j < n; j++) x[names[j]] = mean[j];
-  const y = new Float64Array(trials);
+  // draws column by column (one tight loop per input), then the model trial by trial
+  const cols: Array<Float64Array | null> = kind.map(() => null);
   let spare = NaN;
-  for (let t = 0; t < trials; t++) {
-    for (let j = 0; j < n; j++) {
-      const k = kind[j];
-      if (k === 0) continue;
-      let v: number;
-      if (k === 1) {
+  for (let j = 0; j < n; j++) {
+    const k = kind[j];
+    if (k === 0) continue;
+    const col = new Float64Array(trials);
+    const mu = mean[j];
+    const s = u[j];
+    const a = halfWidth[j];
+    if (k === 1) {
+      for (let t = 0; t < trials; t++) {
         let z: number;
         if (spare === spare) {
           z = spare;
@@ -170,15 +172,22 @@ export function drawOutput(m: McModel, trials: number, seed: number): Float64Arr
           z = r * Math.cos(th);
           spare = r * Math.sin(th);
         }
-        v = mean[j] + u[j] * z;
-      } else if (k === 2) {
-        v = mean[j] + halfWidth[j] * (2 * u01() - 1);
-      } else {
-        // the sum of two uniforms on (0, 1) is triangular on (0, 2) with its peak at 1
-        v = mean[j] + halfWidth[j] * (u01() + u01() - 1);
+        col[t] = mu + s * z;
       }
-      x[names[j]] = v;
+    } else if (k === 2) {
+      for (let t = 0; t < trials; t++) col[t] = mu + a * (2 * u01() - 1);
+    } else {
+      // the sum of two uniforms on (0, 1) is triangular on (0, 2) with its peak at 1
+      for (let t = 0; t < trials; t++) col[t] = mu + a * (u01() + u01() - 1);
     }
+    cols[j] = col;
+  }
+  const x: Record<string, number> = {};
+  for (let j = 0; j < n; j++) x[names[j]] = mean[j];
+  const drawn = cols.map((c, j) => [names[j], c] as const).filter((e): e is readonly [string, Float64Array] => e[1] !== null);
+  const y = new Float64Array(trials);
+  for (let t = 0; t < trials; t++) {
+    for (let j = 0; j < drawn.length; j++) x[drawn[j][0]] = drawn[j][1][t];
     const yt = m.model(x);
     if (!Number.isFinite(yt)) {
       throw new CalcError('calc_out_of_range', `The model has no finite value for a draw of the inputs (${names.map((nm) => `${nm} = ${x[nm]}`).join(', ')}); an input's distribution reaches a value the model cannot take`, {

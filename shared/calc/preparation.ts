@@ -483,16 +483,20 @@ function computePreparation(req: PreparationRequest): { response: CalcPreparatio
     const toL = convertVolume('1', volumeUnit.name, 'L').toNumber();
     const tf = targetFactor.toNumber();
     const w0n: Record<string, number> = Object.fromEntries(Object.entries(w0).map(([k, v]) => [k, v.toNumber()]));
-    const analyteN = Object.entries(analyteAtoms);
-    const compoundN = gm ? Object.entries(gm.compound.atoms) : [];
+    // [input name, atom count, default weight] per element, so a trial builds no strings
+    const atomsOf = (atoms: Record<string, number>): Array<[string, number, number]> => Object.entries(atoms).map(([el, n]) => [`atomicWeight.${el}`, n, w0n[el]!]);
+    const analyteN = atomsOf(analyteAtoms);
+    const compoundN = gm ? atomsOf(gm.compound.atoms) : [];
     const units = gm ? gm.analyteUnits : 1;
     const withW = Boolean(gm && analyteFormula);
     const massFraction = targetUnit.kind === 'massFraction';
     const amount = targetUnit.kind === 'amountConcentration';
-    const weight = (x: Record<string, number>, el: string) => x[`atomicWeight.${el}`] ?? w0n[el];
-    const molar = (x: Record<string, number>, atoms: Array<[string, number]>) => {
+    const molar = (x: Record<string, number>, atoms: Array<[string, number, number]>) => {
       let m = 0;
-      for (const [el, n] of atoms) m += n * weight(x, el);
+      for (let i = 0; i < atoms.length; i++) {
+        const [key, n, w] = atoms[i]!;
+        m += n * (x[key] ?? w);
+      }
       return m;
     };
     return (x) => {
