@@ -19,18 +19,19 @@ import { spawn, type ChildProcess } from 'node:child_process';
 import { existsSync, mkdtempSync, readFileSync, renameSync, rmSync, writeFileSync } from 'node:fs';
 import { createServer } from 'node:net';
 import { tmpdir } from 'node:os';
-import { join, resolve } from 'node:path';
+import { dirname, join, resolve } from 'node:path';
 import { performance } from 'node:perf_hooks';
 import autocannon from 'autocannon';
 import { QueryTypes, type Sequelize } from 'sequelize';
 import request from 'supertest';
 import type { Express } from 'express';
 import { createApp } from '../../server/app.ts';
-import { loadConfig } from '../../server/config.ts';
+import { devChainKey, loadConfig } from '../../server/config.ts';
 import { migrateUp } from '../../server/db/migrate.ts';
 import { openDatabase } from '../../server/db/sequelize.ts';
 import { renderMinimal } from '../../server/pdf/render.ts';
 import { runExpiryDigest } from '../../server/services/expiry-digest.service.ts';
+import { configureAuditChain } from '../../server/services/audit.service.ts';
 import { hashPassword } from '../../server/services/passwords.ts';
 import { calculatePreparation, preparationMonteCarloModel } from '../../shared/calc/preparation.ts';
 import { runMonteCarlo } from '../../shared/calc/monte-carlo.ts';
@@ -309,6 +310,16 @@ async function calcRequestOf(dbPath: string, identifier: string): Promise<string
   }
 }
 
+/**
+ * Open a bench database with the audit chain keyed as the server will key it (the data folder's key outside
+ * production): `npm run bench` runs with NODE_ENV=production, where an unconfigured chain is refused.
+ */
+async function openBenchDatabase(dbPath: string): Promise<Sequelize> {
+  const sequelize = await openDatabase(dbPath);
+  configureAuditChain(sequelize, { key: devChainKey(dirname(dbPath)), anchorFile: null });
+  return sequelize;
+}
+
 interface InProcess {
   app: Express;
   sequelize: Sequelize;
@@ -414,7 +425,7 @@ async function monteCarloPhase(plan: Parameters<typeof calculatePreparation>[0],
 
 async function scalingPhase(dir: string, quick: boolean): Promise<void> {
   const dbPath = join(dir, 'scaling.sqlite');
-  const seq = await openDatabase(dbPath);
+  const seq = await openBenchDatabase(dbPath);
   await migrateUp(seq);
   await seedDemoLab(seq, { env: { NODE_ENV: 'test' }, passwordHash: await hashPassword(DEMO_PASSWORD) });
   await seq.close();
@@ -474,7 +485,7 @@ export async function runGoals({ quick }: { quick: boolean }): Promise<boolean> 
   const t0 = performance.now();
   try {
     console.log(`# issue 11 goals${quick ? ' (--quick)' : ''}: server "${cmd.join(' ')}"\n`);
-    const sequelize = await openDatabase(dbPath);
+    const sequelize = await openBenchDatabase(dbPath);
     await migrateUp(sequelize);
     await seedDemoLab(sequelize, { env: { NODE_ENV: 'test' }, passwordHash: await hashPassword(DEMO_PASSWORD) });
     await fillPreparations(sequelize, 10_000);
