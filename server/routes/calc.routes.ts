@@ -44,9 +44,9 @@ function parseRequest(body: unknown): CalcPreparationRequest {
 export function calcRouter(): Router {
   const router = Router();
   // ZodError → 400 validation_failed; CalcError → 400 with fields[field] (error middleware).
-  router.post('/calc/preparation', requireAuth, (req, res) => {
+  router.post('/calc/preparation', requireAuth, async (req, res) => {
     const input = parseRequest(req.body);
-    res.json(previewPreparation(input));
+    res.json(await previewPreparation(input));
   });
   // GET /api/calc/buoyancy-table?t=&p=&rh=&weightDensity= (any signed-in role): B = m/m' and 1/B per named sample.
   router.get('/calc/buoyancy-table', requireAuth, async (req, res) => {

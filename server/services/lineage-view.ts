@@ -105,8 +105,8 @@ export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: W
   if (!cp && pipette.calibratedVolume) throw AppError.validation(`${pipette.identifier} was calibrated at ${pipette.calibratedVolume.volumeMl} mL, not at ${aliquotMl} mL`);
   return volumetricDilution({
     parent: { value: parent.concentration.value, unit: parent.concentration.unit, standardUncertainty: parent.concentration.standardUncertainty },
-    aliquot: { volumeMl: cp ? cp.meanMl : aliquotMl, standardUncertainty: up.standardUncertainty, ...(cp ? { label: calibratedVolumeLabel('Aliquot volume', cp) } : {}) },
-    final: { volumeMl: cf ? cf.meanMl : flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty, ...(cf ? { label: calibratedVolumeLabel('Flask volume', cf) } : {}) },
+    aliquot: { volumeMl: cp ? cp.meanMl : aliquotMl, standardUncertainty: up.standardUncertainty, distribution: cp ? 'normal' : pipette.kind === 'piston_pipette' ? 'rectangular' : 'triangular', ...(cp ? { label: calibratedVolumeLabel('Aliquot volume', cp) } : {}) },
+    final: { volumeMl: cf ? cf.meanMl : flask.nominalVolumeMl, standardUncertainty: uf.standardUncertainty, distribution: cf ? 'normal' : 'triangular', ...(cf ? { label: calibratedVolumeLabel('Flask volume', cf) } : {}) },
     ...(fuller
       ? {
           repeatability: {
@@ -118,6 +118,8 @@ export function dilutionOf(parent: ParentSnapshot, aliquotMl: string, pipette: W
             finalLabel: cf
               ? `Flask filling repeatability (s = ${twoDigits(cf.repeatabilitySdMl)} mL of fills to the mark in ${cf.checkIdentifier})`
               : `Flask filling repeatability (from the ±${tf} mL tolerance of ${flask.identifier}, triangular a/√6; common practice)`,
+            // one distribution for both rows: triangular from tolerances; a check's s is taken as normal when either is calibrated
+            distribution: cp || cf ? 'normal' : 'triangular',
           },
           temperature: {
             betaPerK: fuller.betaPerK,

@@ -30,7 +30,8 @@ import { D, type Dec, type DecInput, toDec } from './decimal.ts';
 import { CalcError } from './errors.ts';
 import { buoyancyFactor, REFERENCE_WEIGHT_DENSITY } from './buoyancy.ts';
 import { formatResult, shownEstimate, type RoundingRule } from './rounding.ts';
-import { propagate, rectangular, triangular, type BudgetRow, type UncertainInput } from './uncertainty.ts';
+import { propagate, rectangular, triangular, type BudgetRow, type InputDistribution, type UncertainInput } from './uncertainty.ts';
+import type { McModel } from './monte-carlo.ts';
 
 export interface DilutionBudgetRow {
   input: string;
@@ -95,12 +96,12 @@ function finish(value: Dec, uc: Dec, unit: string, budget: BudgetRow[], k: DecIn
 export interface VolumetricDilutionInput {
   /** the parent's concentration (any unit; the result has the same unit) and its standard uncertainty */
   parent: { value: DecInput; unit: string; standardUncertainty: DecInput };
-  /** delivered aliquot, mL, with its standard uncertainty (calibration, and repeatability if known); label: the budget row's name (default "Aliquot volume") */
-  aliquot: { volumeMl: DecInput; standardUncertainty: DecInput; label?: string };
+  /** delivered aliquot, mL, with its standard uncertainty (calibration, and repeatability if known); label: the budget row's name (default "Aliquot volume"); distribution: as the budget states it (for Monte Carlo) */
+  aliquot: { volumeMl: DecInput; standardUncertainty: DecInput; label?: string; distribution?: InputDistribution };
   /** final (flask) volume, mL, with its standard uncertainty; label: the budget row's name (default "Final volume") */
-  final: { volumeMl: DecInput; standardUncertainty: DecInput; label?: string };
+  final: { volumeMl: DecInput; standardUncertainty: DecInput; label?: string; distribution?: InputDistribution };
   /** standard uncertainties (mL) of the aliquot's delivery and the flask's filling from repeat to repeat; omitted: not in the budget */
-  repeatability?: { aliquotMl: DecInput; finalMl: DecInput; aliquotLabel?: string; finalLabel?: string };
+  repeatability?: { aliquotMl: DecInput; finalMl: DecInput; aliquotLabel?: string; finalLabel?: string; distribution?: InputDistribution };
   /** the temperature difference between aliquot and final solution, 0 ± u(ΔT) °C, with the liquid's β (1/K); omitted: not in the budget */
   temperature?: { betaPerK: DecInput; standardUncertaintyC: DecInput; label?: string };
   k?: DecInput;
@@ -120,6 +121,34 @@ export function repeatabilityFromTolerance(toleranceMl: DecInput): Dec {
 
 /** c2 = c1·Vp/Vf (METROLOGY §5.5); the parent's uncertainty enters the budget as an input. */
 export function volumetricDilution(i: VolumetricDilutionInput): DilutionResult {
+  const { inputs, model } = volumetricModel(i);
+  const r = propagate({ model, inputs });
+  return finish(r.value, r.standardUncertainty, i.parent.unit, r.budget, i.k ?? '2', i.rounding ?? 'half-even');
+}
+
+/**
+ * The dilution's measurement model for the Monte Carlo propagation (monte-carlo.ts): the budget's inputs with their
+ * distributions (parent normal, from its own GUM budget; tolerances as the caller states them, default normal;
+ * temperature difference rectangular ±4 °C, QUAM A1) and the same model in plain numbers.
+ */
+export function volumetricDilutionMonteCarloModel(i: VolumetricDilutionInput): McModel {
+  const { inputs, model } = volumetricModel(i);
+  const r = propagate({ model, inputs });
+  const beta = i.temperature ? toDec(i.temperature.betaPerK, 'expansion coefficient').toNumber() : 0;
+  return {
+    inputs: Object.entries(inputs).map(([name, x]) => ({
+      name,
+      value: toDec(x.value, name),
+      standardUncertainty: toDec(x.standardUncertainty, name),
+      distribution: x.distribution ?? 'normal',
+    })),
+    model: (x) => (x.parent * (x.aliquot + (x.aliquotRepeatability ?? 0))) / (x.final + (x.finalRepeatability ?? 0)) * (x.temperature === undefined ? 1 : 1 + beta * x.temperature),
+    gum: { value: r.value, standardUncertainty: r.standardUncertainty },
+    unit: i.parent.unit,
+  };
+}
+
+function volumetricModel(i: VolumetricDilutionInput): { inputs: Record<string, UncertainInput>; model: (x: Record<string, Dec>) => Dec } {
   positive(i.parent.value, 'Parent concentration');
   const vp = positive(i.aliquot.volumeMl, 'Aliquot volume');
   const vf = positive(i.final.volumeMl, 'Final volume');
@@ -128,16 +157,17 @@ export function volumetricDilution(i: VolumetricDilutionInput): DilutionResult {
   }
   const inputs: Record<string, UncertainInput> = {
     parent: { value: i.parent.value, standardUncertainty: i.parent.standardUncertainty, label: 'Parent concentration', unit: i.parent.unit },
-    aliquot: { value: i.aliquot.volumeMl, standardUncertainty: i.aliquot.standardUncertainty, label: i.aliquot.label ?? 'Aliquot volume', unit: 'mL' },
-    final: { value: i.final.volumeMl, standardUncertainty: i.final.standardUncertainty, label: i.final.label ?? 'Final volume', unit: 'mL' },
+    aliquot: { value: i.aliquot.volumeMl, standardUncertainty: i.aliquot.standardUncertainty, label: i.aliquot.label ?? 'Aliquot volume', unit: 'mL', ...(i.aliquot.distribution ? { distribution: i.aliquot.distribution } : {}) },
+    final: { value: i.final.volumeMl, standardUncertainty: i.final.standardUncertainty, label: i.final.label ?? 'Final volume', unit: 'mL', ...(i.final.distribution ? { distribution: i.final.distribution } : {}) },
   };
+  const repDist = i.repeatability?.distribution ? { distribution: i.repeatability.distribution } : {};
   if (i.repeatability) {
-    inputs.aliquotRepeatability = { value: '0', standardUncertainty: i.repeatability.aliquotMl, label: i.repeatability.aliquotLabel ?? 'Aliquot repeatability', unit: 'mL' };
-    inputs.finalRepeatability = { value: '0', standardUncertainty: i.repeatability.finalMl, label: i.repeatability.finalLabel ?? 'Flask filling repeatability', unit: 'mL' };
+    inputs.aliquotRepeatability = { value: '0', standardUncertainty: i.repeatability.aliquotMl, label: i.repeatability.aliquotLabel ?? 'Aliquot repeatability', unit: 'mL', ...repDist };
+    inputs.finalRepeatability = { value: '0', standardUncertainty: i.repeatability.finalMl, label: i.repeatability.finalLabel ?? 'Flask filling repeatability', unit: 'mL', ...repDist };
   }
   const beta = i.temperature ? toDec(i.temperature.betaPerK, 'expansion coefficient') : new D(0);
   if (i.temperature) {
-    inputs.temperature = { value: '0', standardUncertainty: i.temperature.standardUncertaintyC, label: i.temperature.label ?? 'Temperature difference, aliquot to final solution', unit: '°C' };
+    inputs.temperature = { value: '0', standardUncertainty: i.temperature.standardUncertaintyC, label: i.temperature.label ?? 'Temperature difference, aliquot to final solution', unit: '°C', distribution: 'rectangular' };
   }
   const model = (x: Record<string, Dec>) => {
     const vp = x.aliquot!.plus(x.aliquotRepeatability ?? 0);
@@ -145,8 +175,7 @@ export function volumetricDilution(i: VolumetricDilutionInput): DilutionResult {
     const t = x.temperature ? new D(1).plus(beta.mul(x.temperature)) : new D(1);
     return x.parent!.mul(vp).div(vf).mul(t);
   };
-  const r = propagate({ model, inputs });
-  return finish(r.value, r.standardUncertainty, i.parent.unit, r.budget, i.k ?? '2', i.rounding ?? 'half-even');
+  return { inputs, model };
 }
 
 // ------------------------------------------------------------------ gravimetric

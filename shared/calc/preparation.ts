@@ -19,7 +19,8 @@ import { airDensityUncertainty } from './air-density.ts';
 import { buoyancyFactor } from './buoyancy.ts';
 import { gravimetricFactorModel, molarMassFromAtoms, defaultWeights, parseFormula } from './molar-mass.ts';
 import { convertDensity, convertMass, convertVolume, unitKind, normaliseUnit, type UnitKind } from './units.ts';
-import { propagate, rectangular, triangular, fromExpanded, type BudgetRow, type UncertainInput } from './uncertainty.ts';
+import { propagate, rectangular, triangular, fromExpanded, type BudgetRow, type InputDistribution, type UncertainInput } from './uncertainty.ts';
+import type { McModel, McResultText } from './monte-carlo.ts';
 import { formatResult, lastDigitUnit, significantFigureResult, type RoundingRule } from './rounding.ts';
 
 export interface QuantityText {
@@ -92,6 +93,8 @@ export interface CalcPreparationResponse {
       significantFigures: { value: string; significantFigures: number; limitedBy: string };
     };
     budget: BudgetRowText[];
+    /** the Monte Carlo propagation of the same model (JCGM 101), when the request asks for it */
+    monteCarlo?: McResultText;
   };
 }
 
@@ -209,6 +212,18 @@ function rowsText(rows: BudgetRow[]): BudgetRowText[] {
 }
 
 export function calculatePreparation(req: PreparationRequest): CalcPreparationResponse {
+  return computePreparation(req).response;
+}
+
+/**
+ * The actual concentration's measurement model for the Monte Carlo propagation (monte-carlo.ts): the budget's
+ * inputs with their stated distributions and the same model in plain numbers. Null when the request has no weighing.
+ */
+export function preparationMonteCarloModel(req: PreparationRequest): McModel | null {
+  return computePreparation(req).mc ?? null;
+}
+
+function computePreparation(req: PreparationRequest): { response: CalcPreparationResponse; mc?: McModel } {
   if (!req || typeof req !== 'object') throw new CalcError('missing_input', 'The request body is missing', { field: '' });
   const rule: RoundingRule = req.rounding ?? 'half-even';
 
@@ -225,6 +240,7 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
   const volumeMl = convertVolume(volumeValue, volumeUnit.name, 'mL');
   let volumeU: Dec;
   let volumeBasis: string;
+  let volumeDist: InputDistribution = 'normal';
   if (req.volume.standardUncertainty !== undefined && req.volume.standardUncertainty !== '') {
     volumeU = nonNegative(req.volume.standardUncertainty, 'volume.standardUncertainty', 'volume standard uncertainty');
     volumeBasis = 'given';
@@ -233,9 +249,11 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
     if (tol !== undefined) {
       volumeU = convertVolume(triangular(tol), 'mL', volumeUnit.name);
       volumeBasis = `ISO 1042 class A ±${tol} mL, triangular`;
+      volumeDist = 'triangular';
     } else {
       volumeU = rectangular(lastDigitUnit(req.volume.value).div(2));
       volumeBasis = 'half the last typed digit, rectangular';
+      volumeDist = 'rectangular';
     }
   }
 
@@ -273,6 +291,7 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
   }
   const pu = req.material.purity;
   let purityU = new D(0);
+  let purityDist: InputDistribution = 'normal';
   if (pu.standardUncertainty !== undefined && pu.standardUncertainty !== '') {
     purityU = nonNegative(pu.standardUncertainty, 'material.purity.standardUncertainty', 'purity standard uncertainty');
   } else if (pu.expandedUncertainty !== undefined && pu.expandedUncertainty !== '') {
@@ -281,6 +300,7 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
     purityU = fromExpanded(U, k);
   } else if (pu.halfWidth !== undefined && pu.halfWidth !== '') {
     purityU = rectangular(nonNegative(pu.halfWidth, 'material.purity.halfWidth', 'purity half-width'));
+    purityDist = 'rectangular';
   }
 
   if (!req.material.density) throw new CalcError('missing_input', 'Enter the density of the material', { field: 'material.density.value' });
@@ -418,32 +438,75 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
 
   const baseInputs = (): Record<string, UncertainInput> => {
     const inputs: Record<string, UncertainInput> = {
-      purity: { value: purity, standardUncertainty: purityU, label: 'Purity (mass fraction)', unit: '1' },
-      airDensity: { value: rhoA, standardUncertainty: rhoAU, label: airMethod === 'given' ? 'Air density (given)' : 'Air density (CIPM-2007)', unit: 'g/mL' },
+      purity: { value: purity, standardUncertainty: purityU, label: 'Purity (mass fraction)', unit: '1', distribution: purityDist },
+      airDensity: {
+        value: rhoA,
+        standardUncertainty: rhoAU,
+        label: airMethod === 'given' ? 'Air density (given)' : 'Air density (CIPM-2007)',
+        unit: 'g/mL',
+        distribution: airMethod === 'given' ? 'rectangular' : 'normal',
+      },
       materialDensity: {
         value: rhoSg,
         standardUncertainty: rectangular(rhoSg.mul(SOLID_DENSITY_REL_HALF_WIDTH)),
         label: 'Density of the material',
         unit: 'g/mL',
+        distribution: 'rectangular',
       },
       weightDensity: { value: rhoW, standardUncertainty: c(WEIGHT_DENSITY_U), label: 'Density of the balance weights', unit: 'g/mL' },
-      volume: { value: volumeValue, standardUncertainty: volumeU, label: `Volume (${volumeBasis})`, unit: volumeUnit.name },
+      volume: { value: volumeValue, standardUncertainty: volumeU, label: `Volume (${volumeBasis})`, unit: volumeUnit.name, distribution: volumeDist },
     };
     if (rhoSol) inputs.solutionDensity = { value: rhoSol, standardUncertainty: rhoSolU, label: 'Solution density', unit: 'g/mL' };
     if (gm && useAtomicWeights) {
       for (const el of gm.elements) {
         const a = stated[el];
-        inputs[`atomicWeight.${el}`] = a ? { value: a.value, standardUncertainty: a.u, label: a.label, unit: 'g/mol' } : { ...gm.inputs[el], unit: 'g/mol' };
+        // a certificate's u or U/k: normal; a standard atomic weight's interval: rectangular (molar-mass.ts, QUAM)
+        inputs[`atomicWeight.${el}`] = a
+          ? { value: a.value, standardUncertainty: a.u, label: a.label, unit: 'g/mol', distribution: 'normal' }
+          : { ...gm.inputs[el], unit: 'g/mol', distribution: 'rectangular' };
       }
     }
     return inputs;
   };
 
-  const readingU = (massUnit: string, typed?: string): { u: Dec; basis: string } => {
-    if (balanceU) return { u: convertMass(balanceU.value, balanceU.unit, massUnit), basis: 'balance standard uncertainty (given)' };
-    if (readability) return { u: triangular(convertMass(readability.value, readability.unit, massUnit)), basis: '0.408·d from the balance readability' };
-    if (typed !== undefined) return { u: triangular(lastDigitUnit(typed)), basis: '0.408·d, d = last typed digit of the reading' };
-    return { u: new D(0), basis: 'not included: give the balance standard uncertainty or readability' };
+  // 0.408·d = d/√6: two display roundings of ±d/2 each (tare and gross) add to a triangular ±d (METROLOGY §5.2)
+  const readingU = (massUnit: string, typed?: string): { u: Dec; basis: string; distribution: InputDistribution } => {
+    if (balanceU) return { u: convertMass(balanceU.value, balanceU.unit, massUnit), basis: 'balance standard uncertainty (given)', distribution: 'normal' };
+    if (readability) return { u: triangular(convertMass(readability.value, readability.unit, massUnit)), basis: '0.408·d from the balance readability', distribution: 'triangular' };
+    if (typed !== undefined) return { u: triangular(lastDigitUnit(typed)), basis: '0.408·d, d = last typed digit of the reading', distribution: 'triangular' };
+    return { u: new D(0), basis: 'not included: give the balance standard uncertainty or readability', distribution: 'normal' };
+  };
+
+  // The same model as model() in plain numbers, for the Monte Carlo trials only (monte-carlo.ts says why numbers).
+  const numberModel = (massUnit: string): McModel['model'] => {
+    const toG = convertMass('1', massUnit, 'g').toNumber();
+    const toL = convertVolume('1', volumeUnit.name, 'L').toNumber();
+    const tf = targetFactor.toNumber();
+    const w0n: Record<string, number> = Object.fromEntries(Object.entries(w0).map(([k, v]) => [k, v.toNumber()]));
+    // [input name, atom count, default weight] per element, so a trial builds no strings
+    const atomsOf = (atoms: Record<string, number>): Array<[string, number, number]> => Object.entries(atoms).map(([el, n]) => [`atomicWeight.${el}`, n, w0n[el]!]);
+    const analyteN = atomsOf(analyteAtoms);
+    const compoundN = gm ? atomsOf(gm.compound.atoms) : [];
+    const units = gm ? gm.analyteUnits : 1;
+    const withW = Boolean(gm && analyteFormula);
+    const massFraction = targetUnit.kind === 'massFraction';
+    const amount = targetUnit.kind === 'amountConcentration';
+    const molar = (x: Record<string, number>, atoms: Array<[string, number, number]>) => {
+      let m = 0;
+      for (let i = 0; i < atoms.length; i++) {
+        const [key, n, w] = atoms[i]!;
+        m += n * (x[key] ?? w);
+      }
+      return m;
+    };
+    return (x) => {
+      const Bx = (1 - x.airDensity / x.weightDensity) / (1 - x.airDensity / x.materialDensity);
+      const w = withW ? (units * molar(x, analyteN)) / molar(x, compoundN) : 1;
+      let y = (x.reading * toG * Bx * w * x.purity) / (x.volume * toL);
+      if (massFraction) y = y / (x.solutionDensity * 1000);
+      if (amount) y = y / molar(x, analyteN);
+      return y / tf;
+    };
   };
 
   const conc = (res: { value: Dec; standardUncertainty: Dec }): ConcentrationResultText => {
@@ -480,14 +543,27 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
   };
 
   // ---- actual weighing
+  let mc: McModel | undefined;
   if (req.weighing) {
     if (!req.weighing.reading) throw new CalcError('missing_input', 'Enter the balance reading', { field: 'weighing.reading.value' });
     const reading = positive(req.weighing.reading.value, 'weighing.reading.value', 'balance reading');
     const ru = readingU(outMassUnit, req.weighing.reading.value);
-    const res = propagate({
-      model: model(outMassUnit),
-      inputs: { reading: { value: reading, standardUncertainty: ru.u, label: `Balance reading: ${ru.basis}`, unit: outMassUnit }, ...baseInputs() },
-    });
+    const actualInputs: Record<string, UncertainInput> = {
+      reading: { value: reading, standardUncertainty: ru.u, label: `Balance reading: ${ru.basis}`, unit: outMassUnit, distribution: ru.distribution },
+      ...baseInputs(),
+    };
+    const res = propagate({ model: model(outMassUnit), inputs: actualInputs });
+    mc = {
+      inputs: Object.entries(actualInputs).map(([name, i]) => ({
+        name,
+        value: toDec(i.value, name),
+        standardUncertainty: toDec(i.standardUncertainty, name),
+        distribution: i.distribution ?? 'normal',
+      })),
+      model: numberModel(outMassUnit),
+      gum: { value: res.value, standardUncertainty: res.standardUncertainty },
+      unit: targetUnit.name,
+    };
     const sig = significantFigureResult(
       res.value,
       [
@@ -506,5 +582,5 @@ export function calculatePreparation(req: PreparationRequest): CalcPreparationRe
       budget: rowsText(res.budget),
     };
   }
-  return response;
+  return { response, ...(mc ? { mc } : {}) };
 }

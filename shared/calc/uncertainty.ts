@@ -10,11 +10,16 @@
 import { D, type Dec, type DecInput, toDec } from './decimal.ts';
 import { CalcError } from './errors.ts';
 
+/** The probability distribution a budget states for an input (used by the Monte Carlo propagation, monte-carlo.ts). */
+export type InputDistribution = 'normal' | 'rectangular' | 'triangular';
+
 export interface UncertainInput {
   value: DecInput;
   standardUncertainty: DecInput;
   label?: string;
   unit?: string;
+  /** rectangular a/√3, triangular a/√6, or normal (a stated u or U/k); omitted: normal */
+  distribution?: InputDistribution;
 }
 
 export interface BudgetRow {

@@ -101,6 +101,31 @@ const airSchema = z
     for (const [k, v] of Object.entries(cond)) if (v === undefined) ctx.addIssue({ code: 'custom', path: [k], message: names[k] });
   });
 
+/**
+ * Monte Carlo options (JCGM 101): trials 1,000…1,000,000 (default 10⁵), seed 0…4294967295 (default 1), as typed.
+ * Used by the stateless endpoint and by a record's "Run Monte Carlo" action.
+ */
+export const monteCarloOptionsSchema = z.object({
+  trials: z
+    .string({ error: 'Enter the number of trials, e.g. 100000' })
+    .trim()
+    .regex(/^\d+$/, 'Trials must be a whole number from 1000 to 1000000 (default 100000)')
+    .refine((s) => !/^\d+$/.test(s) || (Number(s) >= 1000 && Number(s) <= 1_000_000), 'Trials must be a whole number from 1000 to 1000000 (default 100000)')
+    .optional(),
+  seed: z
+    .string({ error: 'Enter the seed as a whole number, e.g. 1' })
+    .trim()
+    .regex(/^\d+$/, 'The seed must be a whole number from 0 to 4294967295')
+    .refine((s) => !/^\d+$/.test(s) || Number(s) <= 4294967295, 'The seed must be a whole number from 0 to 4294967295')
+    .optional(),
+});
+export type MonteCarloOptions = z.infer<typeof monteCarloOptionsSchema>;
+
+/** Trials and seed as numbers with their defaults (10⁵, 1). */
+export function monteCarloNumbers(o: MonteCarloOptions | undefined): { trials: number; seed: number } {
+  return { trials: o?.trials ? Number(o.trials) : 100_000, seed: o?.seed ? Number(o.seed) : 1 };
+}
+
 export const calcPreparationRequestSchema = z.object({
   target: z
     .object({
@@ -163,6 +188,7 @@ export const calcPreparationRequestSchema = z.object({
     })
     .optional(),
   rounding: z.enum(['half-even', 'half-up'], { error: 'Rounding must be half-even or half-up' }).optional(),
+  monteCarlo: monteCarloOptionsSchema.optional(),
 });
 
 export type CalcPreparationRequest = z.infer<typeof calcPreparationRequestSchema>;

@@ -33,7 +33,9 @@ import { renderMinimal } from '../../server/pdf/render.ts';
 import { runExpiryDigest } from '../../server/services/expiry-digest.service.ts';
 import { configureAuditChain } from '../../server/services/audit.service.ts';
 import { hashPassword } from '../../server/services/passwords.ts';
-import { calculatePreparation } from '../../shared/calc/preparation.ts';
+import { calculatePreparation, preparationMonteCarloModel } from '../../shared/calc/preparation.ts';
+import { runMonteCarlo } from '../../shared/calc/monte-carlo.ts';
+import { runMonteCarloInWorker, stopMonteCarloWorker } from '../../server/services/monte-carlo.service.ts';
 import { DEMO_PASSWORD } from '../../seed/demo-data.ts';
 import { seedDemoLab } from '../../seed/seed-demo-lab.ts';
 
@@ -391,6 +393,34 @@ async function calcPhase(dbPath: string, quick: boolean): Promise<void> {
   }
   const m = median(ts);
   record({ group: 'core', name: `plan with its budget (${requests.length} demo plans)`, value: m, unit: 'ms', goal: '≤ 0.5 ms median', pass: m <= 0.5, detail: `${ts.length} runs` });
+  await monteCarloPhase(requests[0]!, quick);
+}
+
+/** Monte Carlo (JCGM 101), 10⁵ trials of a demo plan weighed at its planned reading: in the core, and through the worker thread. */
+async function monteCarloPhase(plan: Parameters<typeof calculatePreparation>[0], quick: boolean): Promise<void> {
+  const reading = calculatePreparation(plan).balanceReading;
+  const req = { ...plan, weighing: { reading } };
+  const model = preparationMonteCarloModel(req)!;
+  const runs = quick ? 3 : 7;
+  runMonteCarlo(model, { trials: 100_000, seed: 1 }); // warm-up
+  const core: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now();
+    runMonteCarlo(model, { trials: 100_000, seed: i + 1 });
+    core.push(performance.now() - t0);
+  }
+  const mc = median(core);
+  record({ group: 'core', name: 'Monte Carlo, 10⁵ trials (one demo plan)', value: mc, unit: 'ms', goal: '≤ 300 ms median', pass: mc <= 300, detail: `${runs} runs, ${model.inputs.length} inputs` });
+  await runMonteCarloInWorker({ kind: 'preparation', request: req, trials: 100_000, seed: 1 }); // starts the worker
+  const viaWorker: number[] = [];
+  for (let i = 0; i < runs; i++) {
+    const t0 = performance.now();
+    await runMonteCarloInWorker({ kind: 'preparation', request: req, trials: 100_000, seed: i + 1 });
+    viaWorker.push(performance.now() - t0);
+  }
+  await stopMonteCarloWorker();
+  const w = median(viaWorker);
+  record({ group: 'core', name: 'Monte Carlo, 10⁵ trials through the worker thread', value: w, unit: 'ms', goal: '≤ 300 ms median', pass: w <= 300, detail: `${runs} runs, model rebuilt in the worker` });
 }
 
 async function scalingPhase(dir: string, quick: boolean): Promise<void> {
