@@ -68,6 +68,8 @@ export const labSettingsSchema = z.object({
   sessionIdleMinutes: z.number({ error: 'Enter a whole number of minutes' }).int('Enter a whole number of minutes').min(5, 'Use 5 to 480 minutes').max(480, 'Use 5 to 480 minutes').optional(),
   /** How prepared solutions are stored, printed on their labels (a stability rule may say otherwise; unset: DEFAULT_SOLUTION_STORAGE). */
   solutionStorage: lineText({ error: 'Say how prepared solutions are stored' }).trim().min(1, 'Say how prepared solutions are stored').max(120, 'Use at most 120 characters').optional(),
+  /** Accept a reading the balance marked unstable (stored flagged "unstable_allowed"); unset or false: refused (issue 15). */
+  allowUnstableReadings: z.boolean({ error: 'allowUnstableReadings is true or false' }).optional(),
 });
 
 /** Used when settings.sessionIdleMinutes is unset (common practice for shared lab terminals: 30 min). */
