@@ -19,6 +19,7 @@
  * ρ1 (in w1) and ρ_final are treated as independent, which is conservative when both are the same matrix; the
  * correlation of ρ1 between w1 and B_aliquot is neglected (∂lnB/∂ρ = −ρa/ρ² ≈ −1.2·10⁻³ per g/mL, METROLOGY §2.3).
  */
+import { capturesOf } from './reading-capture.ts';
 import type { Transaction } from 'sequelize';
 import {
   airDensityUncertainty,
@@ -87,6 +88,7 @@ function readingDto(r: GravimetricReading, supersededBy: Map<number, number>, us
     unit: r.unit,
     aliquotReading: r.aliquotReading,
     finalReading: r.finalReading,
+    captures: capturesOf(r.captures, ['aliquotReading', 'finalReading']),
     balance: { id: r.balanceId, identifier: r.balanceSnapshot.identifier, snapshot: r.balanceSnapshot },
     conditions: r.conditions,
     airDensity: { value: r.airDensity, standardUncertainty: r.airDensityU },

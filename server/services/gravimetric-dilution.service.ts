@@ -13,6 +13,8 @@
  * fraction and mass concentration with GUM budgets, rounded by the lab rule) is stored with the record in the same
  * write transaction (preparations.dilution_result).
  */
+import { checkedCaptures, captureSummary } from './reading-capture.ts';
+import type { StoredCapture } from '../../shared/balance/capture.ts';
 import { CalcError, D } from '../../shared/calc/index.ts';
 import { checkReadingDigits, checkReadingRange, evaluateGates, formatPreparationId, type Gate } from '../../shared/prep/index.ts';
 import type { GravimetricPlan, GravimetricPlanInput, GravimetricReadingsInput, GravimetricResult, SourcedValue } from '../../shared/schemas/gravimetric.ts';
@@ -265,6 +267,8 @@ export async function recordGravimetricReadings(key: string, input: GravimetricR
     if (!check.ok) fields[f] = check.message;
   }
   if (Object.keys(fields).length) throw AppError.validation(Object.values(fields)[0]!, fields);
+  // how each reading came in: a balance print is parsed again and must say what was sent (422 at the field)
+  const captures = checkedCaptures([['aliquotReading', input.aliquotReading], ['finalReading', input.finalReading]] as const, input.captures, input.unit, balance, settings, now.toISOString());
   const aliquotMg = input.unit === 'g' ? new D(input.aliquotReading).mul(1000).toFixed() : input.aliquotReading;
   const minWeight = aliquotGates(aliquotMg, balance, [], prep.volumeValue, today, prep.snapshotMaterial).filter((g) => g.code === 'below_min_weight');
   if (minWeight.length) throw new GateBlockedError(minWeight);
@@ -310,6 +314,7 @@ export async function recordGravimetricReadings(key: string, input: GravimetricR
         correctionReason: input.supersedesId !== undefined ? input.correctionReason! : null,
         recordedBy: actor.id,
         recordedAt: at,
+        captures: captures as Record<string, StoredCapture>,
       },
       { transaction },
     );
@@ -327,7 +332,7 @@ export async function recordGravimetricReadings(key: string, input: GravimetricR
         entity: 'gravimetric_readings',
         entityId: r.id,
         changes: [
-          ...diffFields({}, { preparation: prep.identifier, balance: balance.identifier, unit: input.unit, aliquotReading: input.aliquotReading, finalReading: input.finalReading, conditions, airDensity: air.value, supersedesId: r.supersedesId }),
+          ...diffFields({}, { preparation: prep.identifier, balance: balance.identifier, unit: input.unit, aliquotReading: input.aliquotReading, finalReading: input.finalReading, conditions, airDensity: air.value, supersedesId: r.supersedesId, captures: captureSummary(captures) }),
           ...diffFields(before, { version: prep.version, concentration: prep.concentrationDisplay }).map((c) => ({ ...c, field: `preparation.${c.field}` })),
           { field: 'preparation.dilutionResult', oldValue: null, newValue: `${result.display} (${result.calcVersion}; readings ${r.id})` },
         ],

@@ -7,6 +7,8 @@
  */
 import { Op, QueryTypes, literal, type WhereOptions } from 'sequelize';
 import { CalcError, convertVolume, D } from '../../shared/calc/index.ts';
+import { capturesOf, checkedCaptures, captureSummary } from './reading-capture.ts';
+import type { StoredCapture } from '../../shared/balance/capture.ts';
 import { checkReadingDigits, checkReadingRange, computeExpiry, dayNumber, evaluateGates, formatPreparationId, isInWindow, netFromDifference, parsePreparationId, type GateBalance } from '../../shared/prep/index.ts';
 import { evaluateFlaskGates, evaluateMaterialDensityGate, evaluateWareCheckGate, type PlanFlask } from '../../shared/prep/plan-gates.ts';
 import { failedCheckOf } from './volume-check-gate.ts';
@@ -378,6 +380,7 @@ function weighingDto(w: Weighing, supersededBy: Map<number, number>, users: Map<
     id: w.id,
     mode: w.mode,
     net: { value: w.netMg, unit: 'mg' },
+    captures: capturesOf(w.captures, w.mode === 'direct' ? ['reading'] : ['before', 'after']),
     balance: { id: w.balanceId, identifier: w.balanceSnapshot.identifier, snapshot: w.balanceSnapshot },
     conditions: w.conditions,
     airDensity: w.airDensity,
@@ -610,6 +613,8 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
     if (!check.ok) fields[field] = check.message;
   }
   if (Object.keys(fields).length) throw AppError.validation(Object.values(fields)[0]!, fields);
+  // how each reading came in: a balance print is parsed again and must say what was sent (422 at the field)
+  const captures = checkedCaptures(typed, input.captures, input.unit, balance, settings, now.toISOString());
 
   let net: string;
   if (input.mode === 'direct') net = input.reading!;
@@ -688,6 +693,7 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
         correctionReason: input.supersedesId !== undefined ? input.correctionReason! : null,
         recordedBy: actor.id,
         recordedAt: at,
+        captures: captures as Record<string, StoredCapture>,
       },
       { transaction },
     );
@@ -707,6 +713,7 @@ export async function recordWeighing(key: string, input: WeighingInput, actor: A
       inWindow,
       outOfWindowReason: w.outOfWindowReason,
       supersedesId: w.supersedesId,
+      captures: captureSummary(captures),
     };
     await recordAudit(
       { actor, action: 'weighing_recorded', entity: 'weighing', entityId: w.id, changes: [...diffFields({}, observation), ...resultChanges.map((c) => ({ ...c, field: `preparation.${c.field}` }))], reason: w.correctionReason ?? w.outOfWindowReason },

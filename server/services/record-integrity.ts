@@ -50,7 +50,7 @@ export interface SealInput {
   /** the latest expiry extension of the current version (when the record was extended at this version) */
   extension?: ExpiryExtension | null;
   /** the record as it is now: its hash under canonical version 2, and under version 1 on demand */
-  current?: { hash: string; hashV1: () => string };
+  current?: { hash: string; hashV1: () => string; hashV2?: () => string };
   /** signature id -> recordHash as the audit trail recorded it at signing */
   audited?: Map<number, string>;
 }
@@ -116,7 +116,7 @@ export function sealProblems(x: SealInput, shown: (p: Preparation) => Record<str
     }
     const row = rowFields(p);
     for (const [k, v] of Object.entries(row)) if (!same(v, signed[k])) out.push(`${k} differs from what was signed`);
-    if (signed.canonicalVersion === 2) {
+    if (typeof signed.canonicalVersion === 'number' && signed.canonicalVersion >= 2) {
       const now = shown(p);
       const then = (signed.shown ?? {}) as Record<string, unknown>;
       for (const [k, v] of Object.entries(now)) if (!same(v, then[k])) out.push(`${SHOWN_NAMES[k] ?? k} differs from what was signed`);
@@ -139,7 +139,7 @@ export function sealProblems(x: SealInput, shown: (p: Preparation) => Record<str
   if (x.current) {
     for (const s of sigs) {
       if (s.recordVersion !== p.version || s.meaning === 'amended') continue;
-      if (s.recordHash !== x.current.hash && s.recordHash !== x.current.hashV1()) {
+      if (s.recordHash !== x.current.hash && s.recordHash !== x.current.hashV2?.() && s.recordHash !== x.current.hashV1()) {
         out.push(`the record's data (weighings, make-up, aliquots, readings or result) no longer match the "${s.meaning}" signature`);
         break;
       }
@@ -265,7 +265,7 @@ export async function sealStates(ps: Preparation[], shown: (p: Preparation) => R
 }
 
 /** Full check of one record with its entries already loaded (signatures.service passes the current hashes). */
-export async function fullSealCheck(p: Preparation, sigs: Signature[], current: { hash: string; hashV1: () => string }, shown: (p: Preparation) => Record<string, unknown>): Promise<SealBroken | null> {
+export async function fullSealCheck(p: Preparation, sigs: Signature[], current: { hash: string; hashV1: () => string; hashV2?: () => string }, shown: (p: Preparation) => Record<string, unknown>): Promise<SealBroken | null> {
   if (!isSealed(p)) return null;
   const [loaded, earlier, audits] = await Promise.all([
     loadFor([p]),

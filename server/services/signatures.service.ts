@@ -48,6 +48,12 @@
  * against the append-only expiry_extensions row). A version-1 signature (written before) keeps checking against
  * the version-1 record (recordForHash(…, 1)); for those the shown columns are checked by deriving them from the
  * signed data where they can be (record-integrity.ts sealProblems).
+ *
+ * CANONICAL VERSION 3 (every signature written from now on; issue 15): version 2 with canonicalVersion: 3 and,
+ * on every weighing and every gravimetric readings record, `captures`: how each reading came in (method, the raw
+ * balance print, stability, the identity the balance printed, time, flags; '{}' on rows written before capture was
+ * recorded). A version-2 signature keeps checking against the version-2 record (recordForHash(…, 2)), so the hashes
+ * of records signed before do not change.
  */
 import { createHash } from 'node:crypto';
 import type { Transaction } from 'sequelize';
@@ -149,8 +155,8 @@ export interface DilutionEntries {
 }
 
 /** The canonical record version new signatures sign (see the header). */
-export const CANONICAL_VERSION = 2;
-export type CanonicalVersion = 1 | 2;
+export const CANONICAL_VERSION = 3;
+export type CanonicalVersion = 1 | 2 | 3;
 
 /** The preparation columns shown to people that canonical version 2 adds to the record (see the header). */
 export function shownColumns(p: Preparation): Record<string, unknown> {
@@ -172,7 +178,7 @@ export function shownColumns(p: Preparation): Record<string, unknown> {
 
 export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution?: DilutionEntries | null, canonicalVersion: CanonicalVersion = CANONICAL_VERSION): Record<string, unknown> {
   const base: Record<string, unknown> = {
-    ...(canonicalVersion === 2 ? { canonicalVersion: 2, shown: shownColumns(p) } : {}),
+    ...(canonicalVersion >= 2 ? { canonicalVersion, shown: shownColumns(p) } : {}),
     preparationId: p.id,
     identifier: p.identifier,
     version: p.version,
@@ -200,6 +206,7 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
       correctionReason: w.correctionReason,
       recordedBy: w.recordedBy,
       recordedAt: w.recordedAt,
+      ...(canonicalVersion >= 3 ? { captures: w.captures } : {}),
     })),
     makeUps: makeUps.map((m) => ({
       id: m.id,
@@ -223,7 +230,7 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
   };
   if (!dilution) return base;
   if (dilution.mix) return { ...base, ...mixHashFields(dilution.mix) }; // a mix: aliquots with their component, every component's result
-  if (dilution.gravimetricReadings) return { ...base, ...gravimetricHashFields(dilution.gravimetricReadings, dilution.result) }; // a gravimetric dilution: its readings and stored result
+  if (dilution.gravimetricReadings) return { ...base, ...gravimetricHashFields(dilution.gravimetricReadings, dilution.result, canonicalVersion) }; // a gravimetric dilution: its readings and stored result
   return {
     ...base,
     aliquots: dilution.aliquots.map((a) => ({
@@ -246,7 +253,7 @@ export function recordForHash(p: Preparation, weighings: Weighing[], makeUps: Ma
  * first, each { id, balanceId, balanceSnapshot, unit, aliquotReading, finalReading, conditions, airDensity,
  * airDensityU, supersedesId, correctionReason, recordedBy, recordedAt }, and the stored result (dilutionResult).
  */
-function gravimetricHashFields(readings: GravimetricReading[], result: unknown): Record<string, unknown> {
+function gravimetricHashFields(readings: GravimetricReading[], result: unknown, canonicalVersion: CanonicalVersion): Record<string, unknown> {
   return {
     gravimetricReadings: readings.map((r) => ({
       id: r.id,
@@ -262,6 +269,7 @@ function gravimetricHashFields(readings: GravimetricReading[], result: unknown):
       correctionReason: r.correctionReason,
       recordedBy: r.recordedBy,
       recordedAt: r.recordedAt,
+      ...(canonicalVersion >= 3 ? { captures: r.captures } : {}),
     })),
     dilutionResult: result ?? null,
   };
@@ -299,11 +307,11 @@ async function entriesOf(p: Preparation, transaction?: Transaction) {
 }
 
 /** The canonical JSON and hash of the record as it is now. */
-export async function currentRecordHash(preparationId: number, transaction?: Transaction): Promise<{ canonical: string; hash: string; version: number; hashV1: string }> {
+export async function currentRecordHash(preparationId: number, transaction?: Transaction): Promise<{ canonical: string; hash: string; version: number; hashV1: string; hashV2: string }> {
   const p = await Preparation.findByPk(preparationId, { transaction });
   if (!p) throw AppError.notFound(`Preparation ${preparationId}`);
   const { weighings, makeUps, dilution } = await entriesOf(p, transaction);
-  return { ...canonicalRecord(p, weighings, makeUps, dilution), version: p.version, hashV1: canonicalRecord(p, weighings, makeUps, dilution, 1).hash };
+  return { ...canonicalRecord(p, weighings, makeUps, dilution), version: p.version, hashV1: canonicalRecord(p, weighings, makeUps, dilution, 1).hash, hashV2: canonicalRecord(p, weighings, makeUps, dilution, 2).hash };
 }
 
 export async function storeVersion(p: Preparation, canonical: string, hash: string, at: string, transaction: Transaction) {
@@ -338,7 +346,7 @@ export async function verifySignatures(preparationId: number): Promise<Signature
       const signed = JSON.parse(rv.canonicalJson) as { preparationId?: number; version?: number };
       if (signed.preparationId !== preparationId) problem = `the signed content belongs to preparation ${signed.preparationId}`;
       else if (signed.version !== s.recordVersion) problem = `the signed content is version ${signed.version}, not ${s.recordVersion}`;
-      else if (s.recordVersion === now.version && s.recordHash !== now.hash && s.recordHash !== now.hashV1) problem = `the record changed without a new version since it was signed at version ${s.recordVersion}`;
+      else if (s.recordVersion === now.version && s.recordHash !== now.hash && s.recordHash !== now.hashV2 && s.recordHash !== now.hashV1) problem = `the record changed without a new version since it was signed at version ${s.recordVersion}`;
     }
     out.push(problem ? { ...base, ok: false, problem } : { ...base, ok: true });
   }
@@ -354,18 +362,30 @@ interface State {
   /** set for a dilution or series level; null for a stock */
   dilution: DilutionEntries | null;
   sigs: Signature[];
-  /** the hash of the record as it is now (canonical version 2) */
+  /** the hash of the record as it is now (canonical version 3) */
   hash: string;
   /** the same under canonical version 1, for signatures written before version 2 (computed when asked) */
   hashV1: () => string;
+  /** the same under canonical version 2, for signatures written before version 3 (computed when asked) */
+  hashV2: () => string;
 }
 
 /** A signature is valid while it names the current version and that version's hash, under the canonical version it was signed in. */
-const isValid = (s: Signature, st: Pick<State, 'p' | 'hash' | 'hashV1'>) => s.recordVersion === st.p.version && (s.recordHash === st.hash || s.recordHash === st.hashV1());
+const isValid = (s: Signature, st: Pick<State, 'p' | 'hash' | 'hashV1' | 'hashV2'>) => s.recordVersion === st.p.version && (s.recordHash === st.hash || s.recordHash === st.hashV2() || s.recordHash === st.hashV1());
 
 function stateOf(p: Preparation, weighings: Weighing[], makeUps: MakeUp[], dilution: DilutionEntries | null, sigs: Signature[]): State {
   let v1: string | undefined;
-  return { p, weighings, makeUps, dilution, sigs, hash: canonicalRecord(p, weighings, makeUps, dilution).hash, hashV1: () => (v1 ??= canonicalRecord(p, weighings, makeUps, dilution, 1).hash) };
+  let v2: string | undefined;
+  return {
+    p,
+    weighings,
+    makeUps,
+    dilution,
+    sigs,
+    hash: canonicalRecord(p, weighings, makeUps, dilution).hash,
+    hashV1: () => (v1 ??= canonicalRecord(p, weighings, makeUps, dilution, 1).hash),
+    hashV2: () => (v2 ??= canonicalRecord(p, weighings, makeUps, dilution, 2).hash),
+  };
 }
 
 function activeWeighing(weighings: Weighing[]): Weighing | undefined {
@@ -486,7 +506,7 @@ async function loadState(p: Preparation, transaction?: Transaction): Promise<Sta
   return stateOf(p, weighings, makeUps, dilution, sigs);
 }
 
-function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash' | 'hashV1'>): SignatureDto {
+function signatureDto(s: Signature, st: Pick<State, 'p' | 'hash' | 'hashV1' | 'hashV2'>): SignatureDto {
   const dto: SignatureDto = {
     id: s.id,
     meaning: s.meaning,

@@ -8,6 +8,7 @@
  * Decimal strings throughout; readings keep the digits the balance showed.
  */
 import { z } from 'zod';
+import { capturesSchema, splitCapturedReadings, type StoredCapture } from '../balance/capture.ts';
 import { PLAUSIBLE, inRange } from './plausible.ts';
 import { multilineText } from './text.ts';
 import Decimal from 'decimal.js';
@@ -64,8 +65,14 @@ export const gravimetricRoomSchema = z.object({
 });
 
 /** Body of POST /api/preparations/:key/gravimetric-readings: both net readings, as the balance showed them. */
-export const gravimetricReadingsInputSchema = z
+export const GRAVIMETRIC_READING_FIELDS = ['aliquotReading', 'finalReading'] as const;
+
+export const gravimetricReadingsInputSchema = z.preprocess(
+  splitCapturedReadings(GRAVIMETRIC_READING_FIELDS),
+  z
   .object({
+    /** how each reading came in (a reading sent as { value, unit, capture } lands here; absent: typed, flagged) */
+    captures: capturesSchema(GRAVIMETRIC_READING_FIELDS),
     aliquotReading: reading('the aliquot reading'),
     finalReading: reading('the final solution reading'),
     unit: z.enum(['g', 'mg'], { error: 'Give the unit the balance showed: g or mg' }).default('g'),
@@ -78,7 +85,8 @@ export const gravimetricReadingsInputSchema = z
       ctx.addIssue({ code: 'custom', path: ['finalReading'], message: 'The final solution (aliquot + diluent) must weigh more than the aliquot' });
     }
     if (v.supersedesId !== undefined && !v.correctionReason) ctx.addIssue({ code: 'custom', path: ['correctionReason'], message: 'Give the reason for the correction' });
-  });
+  }),
+);
 export type GravimetricReadingsInput = z.output<typeof gravimetricReadingsInputSchema>;
 
 // ---------------------------------------------------------------- DTOs
@@ -124,6 +132,8 @@ export interface GravimetricReadingDto {
   unit: 'g' | 'mg';
   aliquotReading: string;
   finalReading: string;
+  /** how each reading came in (aliquotReading | finalReading); rows from before issue 15 show as typed, not_recorded */
+  captures: Partial<Record<(typeof GRAVIMETRIC_READING_FIELDS)[number], StoredCapture>>;
   balance: { id: number; identifier: string; snapshot: Balance };
   conditions: ConditionsUsed;
   /** g/mL (CIPM-2007) with its standard uncertainty */

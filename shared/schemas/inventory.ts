@@ -8,11 +8,18 @@ import { lineText, multilineText } from './text.ts';
 import { PLAUSIBLE, inRange } from './plausible.ts';
 import { isIsoDate } from '../prep/dates.ts';
 import { DECIMAL_TEXT, decimalCheck } from './decimal-text.ts';
+import { LINE_SHAPES } from '../balance/output-line.ts';
 
 export const MATERIAL_GRADES = ['CRM', 'RM', 'reagent'] as const;
 export const PURITY_BASES = ['as-is', 'dried'] as const;
 export const LOT_STATUSES = ['accepted', 'quarantined', 'retired'] as const;
 export const BALANCE_STATUSES = ['in_service', 'out_of_service', 'retired'] as const;
+/** How a balance's serial port is set (its own menu says the same); generic names of our own. */
+export const SERIAL_BAUDS = [1200, 2400, 4800, 9600, 19200, 38400, 57600, 115200] as const;
+export const SERIAL_DATA_BITS = [7, 8] as const;
+export const SERIAL_PARITIES = ['none', 'even', 'odd'] as const;
+export const SERIAL_STOP_BITS = [1, 2] as const;
+export const SERIAL_LINE_ENDINGS = ['crlf', 'cr', 'lf'] as const;
 export const WARE_KINDS = ['volumetric_flask', 'bulb_pipette', 'graduated_pipette', 'piston_pipette'] as const;
 export const WARE_CLASSES = ['A', 'B', 'n/a'] as const;
 export const WARE_STATUSES = ['in_service', 'out_of_service', 'retired'] as const;
@@ -80,6 +87,17 @@ export const balanceSchema = z.object({
   /** true when the server computed minWeightMg from s and d (USP <41>); false when it was entered. */
   minWeightComputed: z.boolean(),
   status: z.enum(BALANCE_STATUSES),
+  /** The line shape the balance prints (shared/balance/output-line.ts); 'auto' tries each. */
+  outputShape: z.enum(LINE_SHAPES),
+  /** What to send to the balance for a stable reading (e.g. a print command), null: press Print on the balance. */
+  printCommand: z.string().nullable(),
+  /** The identity the balance prints on its readings (ID or serial number); null: its identifier here. */
+  printedId: z.string().nullable(),
+  serialBaud: z.number().int(),
+  serialDataBits: z.number().int(),
+  serialParity: z.enum(SERIAL_PARITIES),
+  serialStopBits: z.number().int(),
+  serialLineEnding: z.enum(SERIAL_LINE_ENDINGS),
   retiredAt: z.string().nullable(),
   retiredReason: z.string().nullable(),
   createdAt: z.string(),
@@ -412,6 +430,9 @@ export type MaterialUpdate = z.output<typeof materialUpdateInputSchema>;
 
 export const BALANCE_INPUT_STATUSES = ['in_service', 'out_of_service'] as const;
 
+const numberOf = (allowed: readonly number[], message: string) =>
+  z.number({ error: message }).refine((v) => allowed.includes(v), message);
+
 const balanceFields = {
   identifier: identifierSchema,
   description: requiredName('description'),
@@ -428,6 +449,21 @@ const balanceFields = {
   calibrationUncertaintyK: opt(decimalCheck((d) => d.gt(0) && d.lte(10), 'Coverage factor k must be greater than 0 and at most 10, e.g. 2')),
   weightDensityGPerMl: decimalCheck((d) => d.gt(0) && d.lte(25), 'Calibration-weight density must be greater than 0 and at most 25 g/mL, e.g. 8.0'),
   status: z.enum(BALANCE_INPUT_STATUSES, { error: 'Status is in_service or out_of_service; use retire to retire it' }),
+  outputShape: z.enum(LINE_SHAPES, { error: `Output line shape is one of: ${LINE_SHAPES.join(', ')}` }),
+  /** printable ASCII only (sent to the balance as is, the line ending appended) */
+  printCommand: opt(
+    z
+      .string({ error: 'Enter the print command as text, e.g. SI' })
+      .trim()
+      .max(20, 'Use at most 20 characters')
+      .regex(/^[\x20-\x7e]+$/, 'Use printable characters only (letters, digits, punctuation); the line ending is added'),
+  ),
+  printedId: opt(freeText(40)),
+  serialBaud: numberOf(SERIAL_BAUDS, `Baud rate is one of: ${SERIAL_BAUDS.join(', ')}`),
+  serialDataBits: numberOf(SERIAL_DATA_BITS, 'Data bits are 7 or 8'),
+  serialParity: z.enum(SERIAL_PARITIES, { error: `Parity is one of: ${SERIAL_PARITIES.join(', ')}` }),
+  serialStopBits: numberOf(SERIAL_STOP_BITS, 'Stop bits are 1 or 2'),
+  serialLineEnding: z.enum(SERIAL_LINE_ENDINGS, { error: `Line ending is one of: ${SERIAL_LINE_ENDINGS.join(', ')}` }),
 };
 
 function balanceRules(b: Partial<Record<keyof typeof balanceFields, unknown>>, ctx: Ctx, full: boolean) {
@@ -453,6 +489,12 @@ export const balanceCreateInputSchema = z
     ...balanceFields,
     weightDensityGPerMl: balanceFields.weightDensityGPerMl.default('8.0'),
     status: balanceFields.status.default('in_service'),
+    outputShape: balanceFields.outputShape.default('auto'),
+    serialBaud: balanceFields.serialBaud.default(9600),
+    serialDataBits: balanceFields.serialDataBits.default(8),
+    serialParity: balanceFields.serialParity.default('none'),
+    serialStopBits: balanceFields.serialStopBits.default(1),
+    serialLineEnding: balanceFields.serialLineEnding.default('crlf'),
   })
   .superRefine((b, ctx) => balanceRules(b, ctx, true));
 export type BalanceCreateInput = z.input<typeof balanceCreateInputSchema>;

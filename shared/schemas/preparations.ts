@@ -11,6 +11,7 @@
  *   POST /api/preparations/:key/make-up   makeUpInputSchema            -> PreparationDetail (201)
  */
 import { z } from 'zod';
+import { capturesSchema, splitCapturedReadings, type StoredCapture } from '../balance/capture.ts';
 import { PLAUSIBLE, checkConcentration, checkQuantity } from './plausible.ts';
 import { lineText, multilineText } from './text.ts';
 import Decimal from 'decimal.js';
@@ -154,9 +155,15 @@ export type ReadingUnit = (typeof READING_UNITS)[number];
  * `before` (vessel with material) and `after` (vessel after transfer). The digits of every reading must
  * match the balance's readability (checked on the server → 400 fields.reading / before / after).
  */
-export const weighingInputSchema = z
+export const WEIGHING_READING_FIELDS = ['reading', 'before', 'after'] as const;
+
+export const weighingInputSchema = z.preprocess(
+  splitCapturedReadings(WEIGHING_READING_FIELDS),
+  z
   .object({
     mode: z.enum(WEIGHING_MODES, { error: 'Choose direct or by difference' }),
+    /** how each reading came in (a reading sent as { value, unit, capture } lands here; absent: typed, flagged) */
+    captures: capturesSchema(WEIGHING_READING_FIELDS),
     reading: readingString('the balance reading').optional(),
     before: readingString('the reading before transfer').optional(),
     after: readingString('the reading after transfer').optional(),
@@ -184,7 +191,8 @@ export const weighingInputSchema = z
     if (w.supersedesId !== undefined && (w.correctionReason === undefined || w.correctionReason.length < 3)) {
       ctx.addIssue({ code: 'custom', path: ['correctionReason'], message: 'Give the reason for the correction (at least 3 characters)' });
     }
-  });
+  }),
+);
 export type WeighingInput = Omit<z.output<typeof weighingInputSchema>, 'conditions'> & { conditions: ConditionsInput };
 
 /** Body of POST /api/preparations/:key/make-up. */
@@ -327,6 +335,8 @@ export interface Weighing {
   before?: Quantity<ReadingUnit>;
   after?: Quantity<ReadingUnit>;
   net: Quantity<'mg'>;
+  /** how each reading came in, by field (reading | before | after); rows from before issue 15 show as typed, not_recorded */
+  captures: Partial<Record<(typeof WEIGHING_READING_FIELDS)[number], StoredCapture>>;
   /** snapshot = the balance row (status included) at the time of weighing */
   balance: { id: number; identifier: string; snapshot: Balance };
   conditions: { temperatureC: string; pressureHPa: string; relativeHumidityPct: string; measuredAt: string; source: ConditionSource };

@@ -74,6 +74,8 @@ export const labSettingsSchema = z.object({
    * class tolerance (unset: off). Records already written keep the volumes they were computed with.
    */
   useCalibratedVolumes: z.boolean({ error: 'Choose on or off' }).optional(),
+  /** Accept a reading the balance marked unstable (stored flagged "unstable_allowed"); unset or false: refused (issue 15). */
+  allowUnstableReadings: z.boolean({ error: 'Choose on or off' }).optional(),
 });
 
 /** Used when settings.sessionIdleMinutes is unset (common practice for shared lab terminals: 30 min). */

@@ -3,6 +3,7 @@
  * and DELETE). Readings are the verbatim strings the balance showed; a correction is a new row naming the one it supersedes.
  */
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { StoredCapture } from '../../../shared/balance/capture.ts';
 import type { Balance } from '../../../shared/schemas/inventory.ts';
 import type { ConditionsUsed } from '../../../shared/schemas/preparations.ts';
 import { jsonText, optionalText, requiredText } from './helpers.ts';
@@ -22,6 +23,8 @@ export class GravimetricReading extends Model<InferAttributes<GravimetricReading
   declare correctionReason: string | null;
   declare recordedBy: number;
   declare recordedAt: string;
+  /** migration 0021: how each reading came in, by field ('{}' on rows written before) */
+  declare captures: CreationOptional<Record<string, StoredCapture>>;
 }
 
 export function initGravimetric(sequelize: Sequelize): typeof GravimetricReading {
@@ -41,6 +44,7 @@ export function initGravimetric(sequelize: Sequelize): typeof GravimetricReading
       correctionReason: optionalText(),
       recordedBy: { type: DataTypes.INTEGER, allowNull: false },
       recordedAt: requiredText(),
+      captures: { ...jsonText<Record<string, StoredCapture>>('captures', {}), defaultValue: '{}' },
     },
     { sequelize, tableName: 'gravimetric_readings', modelName: 'GravimetricReading', underscored: true, timestamps: false },
   );

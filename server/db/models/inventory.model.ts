@@ -1,6 +1,7 @@
 /**
  * Inventory models. Measured values are TEXT decimal strings; never convert them to JS numbers here.
  */
+import type { LineShapeSetting } from '../../../shared/balance/output-line.ts';
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
 import {
   BALANCE_STATUSES,
@@ -83,6 +84,15 @@ export class Balance extends Model<InferAttributes<Balance>, InferCreationAttrib
   /** true when the server computed minWeightMg (USP <41>) rather than storing an entered value. */
   declare minWeightComputed: CreationOptional<boolean>;
   declare status: (typeof BALANCE_STATUSES)[number];
+  /** migration 0021: the line shape it prints, its print command and printed identity, its serial settings */
+  declare outputShape: CreationOptional<LineShapeSetting>;
+  declare printCommand: CreationOptional<string | null>;
+  declare printedId: CreationOptional<string | null>;
+  declare serialBaud: CreationOptional<number>;
+  declare serialDataBits: CreationOptional<number>;
+  declare serialParity: CreationOptional<'none' | 'even' | 'odd'>;
+  declare serialStopBits: CreationOptional<number>;
+  declare serialLineEnding: CreationOptional<'crlf' | 'cr' | 'lf'>;
   declare retiredAt: CreationOptional<string | null>;
   declare retiredReason: CreationOptional<string | null>;
   declare createdAt: CreationOptional<string>;
@@ -174,6 +184,14 @@ export function initInventory(sequelize: Sequelize) {
       minWeightReadabilityMg: optionalText(),
       minWeightComputed: { type: DataTypes.BOOLEAN, allowNull: false, defaultValue: false },
       status: oneOf(BALANCE_STATUSES) as never,
+      outputShape: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'auto' },
+      printCommand: optionalText(),
+      printedId: optionalText(),
+      serialBaud: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 9600 },
+      serialDataBits: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 8 },
+      serialParity: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'none' },
+      serialStopBits: { type: DataTypes.INTEGER, allowNull: false, defaultValue: 1 },
+      serialLineEnding: { type: DataTypes.TEXT, allowNull: false, defaultValue: 'crlf' },
       ...retiredAttributes(),
       ...timestampAttributes(),
     },

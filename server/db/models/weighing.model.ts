@@ -3,6 +3,7 @@
  * Readings are the verbatim strings as typed; a correction is a new row naming the one it supersedes.
  */
 import { DataTypes, Model, type CreationOptional, type InferAttributes, type InferCreationAttributes, type Sequelize } from 'sequelize';
+import type { StoredCapture } from '../../../shared/balance/capture.ts';
 import type { Balance } from '../../../shared/schemas/inventory.ts';
 import type { ConditionsUsed, ReadingUnit, WeighingMode } from '../../../shared/schemas/preparations.ts';
 import { jsonText, optionalText, requiredText } from './helpers.ts';
@@ -26,6 +27,8 @@ export class Weighing extends Model<InferAttributes<Weighing>, InferCreationAttr
   declare correctionReason: string | null;
   declare recordedBy: number;
   declare recordedAt: string;
+  /** migration 0021: how each reading came in, by field ('{}' on rows written before) */
+  declare captures: CreationOptional<Record<string, StoredCapture>>;
 }
 
 export function initWeighing(sequelize: Sequelize): typeof Weighing {
@@ -49,6 +52,7 @@ export function initWeighing(sequelize: Sequelize): typeof Weighing {
       correctionReason: optionalText(),
       recordedBy: { type: DataTypes.INTEGER, allowNull: false },
       recordedAt: requiredText(),
+      captures: { ...jsonText<Record<string, StoredCapture>>('captures', {}), defaultValue: '{}' },
     },
     { sequelize, tableName: 'weighings', modelName: 'Weighing', underscored: true, timestamps: false },
   );
