@@ -12,7 +12,7 @@
  *      stocks, verified.
  *   5. An earlier Pb stock made in October (expired) and a Pb 100 mg/L working standard from it, expired with
  *      it: its expiry was capped by the parent's, so QA's extension is refused, naming the parent.
- * Each solution has its own flask and each open record its own pipettes: the chemist registers VF-100-03…10,
+ * Each solution has its own flask and each open record its own pipettes: the chemist registers VF-100-04…11 (VF-100-03 holds the demo TOC stock),
  * VF-50-02/03 and second and third bulb pipettes first (inventory service, ISO 1042 / ISO 648 class A
  * tolerances as in demo-data.ts, from memory). The readings are invented but plausible for the balances used.
  * Handling lead and cadmium solutions: the usual cautions (gloves, eye protection, fume hood for the nitric acid
@@ -89,7 +89,7 @@ export async function seedDemoWorkingStandards(now: Date = new Date()): Promise<
   // More class A ware, registered through the inventory service (audited like any new item).
   const BORO = 'borosilicate 3.3';
   const newWare = [
-    ...['03', '04', '05', '06', '07', '08', '09', '10'].map((n) => ({ identifier: `VF-100-${n}`, kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', material: BORO })),
+    ...['04', '05', '06', '07', '08', '09', '10', '11'].map((n) => ({ identifier: `VF-100-${n}`, kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', material: BORO })),
     ...['02', '03'].map((n) => ({ identifier: `VF-50-${n}`, kind: 'volumetric_flask', nominalVolumeMl: '50', class: 'A', toleranceMl: '0.06', material: BORO })),
     ...[['1', '0.008', '02'], ['1', '0.008', '03'], ['2', '0.010', '02'], ['5', '0.015', '02'], ['10', '0.020', '02']].map(([ml, tol, n]) => ({ identifier: `BP-${ml}-${n}`, kind: 'bulb_pipette', nominalVolumeMl: ml!, class: 'A', toleranceMl: tol!, material: BORO })),
   ];
@@ -114,7 +114,7 @@ export async function seedDemoWorkingStandards(now: Date = new Date()): Promise<
   }
 
   // 5a. October's Pb stock: verified then, expired since (30-day lab rule).
-  const oldLeadStock = await stock('Pb(NO3)2', 'Pb', 'VF-100-03', 4, '2026-10-01', maren, 'Previous lead stock for the ICP-MS calibration');
+  const oldLeadStock = await stock('Pb(NO3)2', 'Pb', 'VF-100-11', 4, '2026-10-01', maren, 'Previous lead stock for the ICP-MS calibration');
   await prepared(oldLeadStock, maren, '2026-10-01T10:05:00Z');
   await verified(oldLeadStock, idris, '2026-10-01T14:20:00Z');
 

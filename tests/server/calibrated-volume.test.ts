@@ -16,6 +16,7 @@ import { D } from '../../shared/calc/decimal.ts';
 import { rectangular, triangular } from '../../shared/calc/index.ts';
 import { expectClose } from '../helpers/decimal.ts';
 import { DEMO, DEMO_PASSWORD, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { emptyFlask } from './helpers/free-flask.ts';
 
 type Who = 'chemist' | 'chemist2' | 'technician' | 'admin' | 'qa';
 let t: TestApp;
@@ -95,6 +96,7 @@ async function madeUpStock(flask: string): Promise<any> {
   const p = await send('chemist', 'post', '/api/preparations', planBody(flask));
   expect(p.status, JSON.stringify(p.body)).toBe(201);
   expect((await send('chemist', 'post', `/api/preparations/${p.body.id}/weighings`, weighingBody)).status).toBe(201);
+  await emptyFlask(t.app, cookie.qa!, flask, DEMO_PASSWORD); // one flask, one open solution: the test reuses the checked flask
   const m = await send('chemist', 'post', `/api/preparations/${p.body.id}/make-up`, makeUpBody(flask));
   expect(m.status, JSON.stringify(m.body)).toBe(201);
   return m.body;
@@ -107,14 +109,17 @@ const FUTURE = '2099-12-31';
 beforeAll(async () => {
   t = await makeTestApp();
   for (const who of ['chemist', 'chemist2', 'technician', 'admin', 'qa'] as const) cookie[who] = await sessionCookie(t.app, DEMO[who]);
+  // the checked flask is the test's own: the demo flasks hold the demo's open solutions (one flask, one open solution)
+  const reg = await send('chemist', 'post', '/api/volumetric-ware', { identifier: 'VF-100-T91', kind: 'volumetric_flask', nominalVolumeMl: '100', class: 'A', toleranceMl: '0.10', material: 'borosilicate 3.3', status: 'in_service' });
+  expect(reg.status, JSON.stringify(reg.body)).toBe(201);
   for (const w of await VolumetricWare.findAll()) ware[w.identifier] = w.id;
   for (const m of (await send('chemist', 'get', '/api/materials')).body.items) ids.material[m.formula] = m.id;
   for (const b of await Balance.findAll()) ids.balance[b.identifier] = b.id;
   const s = (await send('chemist', 'get', '/api/solvents')).body.items.find((x: { name: string }) => x.name === 'Ultrapure water');
   water = { id: s.id, lot: s.lot, beta: s.expansionCoefficientPerK };
   pb = (await Preparation.findOne({ where: { analyteFormula: 'Pb', status: 'verified' } }))!; // the demo's verified Pb stock
-  // VF-100-01: content 100.030 mL at 20 °C, U = 0.020 mL (k = 2), s = 0.012 mL; VF-100-02: 99.980 mL, U = 0.030 mL, s = 0.015 mL
-  await storedCheck('VC-2026-0901', 'VF-100-01', { testedMl: '100', mean: '100.030', U: '0.020', k: '2', s: '0.012', verdict: 'pass', nextDueOn: FUTURE });
+  // VF-100-T91: content 100.030 mL at 20 °C, U = 0.020 mL (k = 2), s = 0.012 mL; VF-100-02: 99.980 mL, U = 0.030 mL, s = 0.015 mL
+  await storedCheck('VC-2026-0901', 'VF-100-T91', { testedMl: '100', mean: '100.030', U: '0.020', k: '2', s: '0.012', verdict: 'pass', nextDueOn: FUTURE });
   await storedCheck('VC-2026-0902', 'VF-100-02', { testedMl: '100', mean: '99.980', U: '0.030', k: '2', s: '0.015', verdict: 'pass', nextDueOn: FUTURE });
 }, 90_000);
 afterAll(() => t.close());
@@ -125,13 +130,13 @@ let calibrated: any; // the same stock with the setting on
 describe('calibrated volumes in budgets (lab setting useCalibratedVolumes)', () => {
   it('with the setting off (the default), a flask with a passed check is used at its nominal volume and tolerance, as before', async () => {
     expect((await send('chemist', 'get', '/api/settings')).body.useCalibratedVolumes).toBeUndefined();
-    nominal = await madeUpStock('VF-100-01');
+    nominal = await madeUpStock('VF-100-T91');
     expect(nominal.snapshot.flask.calibratedVolume).toBeUndefined();
     expect(nominal.makeUp.flask.snapshot.calibratedVolume).toBeUndefined();
     expect(nominal.result.calcVersion).toBe('tarebook-calc/1');
     expect(nominal.result.volume).toEqual({ value: '100', unit: 'mL' });
     const v = row(nominal.result.budget, 'volume');
-    expect(v.label).toBe('Volume (tolerance ±0.10 mL of VF-100-01, triangular)');
+    expect(v.label).toBe('Volume (tolerance ±0.10 mL of VF-100-T91, triangular)');
     expectClose(v.standardUncertainty, triangular('0.10'), '1e-15'); // QUAM A1: a/√6
   });
 
@@ -149,8 +154,8 @@ describe('calibrated volumes in budgets (lab setting useCalibratedVolumes)', () 
     expect(changes).toEqual([{ field: 'useCalibratedVolumes', oldValue: null, newValue: true }]);
   });
 
-  it('a stock made up in VF-100-01 then uses V = 100.030 mL and u(V) = 0.020/2 = 0.010 mL from VC-2026-0901; c and u_c change as worked by hand', async () => {
-    calibrated = await madeUpStock('VF-100-01');
+  it('a stock made up in VF-100-T91 then uses V = 100.030 mL and u(V) = 0.020/2 = 0.010 mL from VC-2026-0901; c and u_c change as worked by hand', async () => {
+    calibrated = await madeUpStock('VF-100-T91');
     expect(calibrated.snapshot.flask.calibratedVolume).toMatchObject({ checkIdentifier: 'VC-2026-0901', volumeMl: '100', meanMl: '100.03', expandedUncertaintyMl: '0.02', k: '2', standardUncertaintyMl: '0.01', nextDueOn: FUTURE });
     expect(calibrated.makeUp.flask.snapshot.calibratedVolume.checkIdentifier).toBe('VC-2026-0901');
     const r = calibrated.result;
@@ -224,7 +229,7 @@ describe('calibrated volumes in budgets (lab setting useCalibratedVolumes)', () 
   it('the prep sheet names the check: the inputs, the flask, the calculation step and the budget row', async () => {
     const text = await prepSheet(calibrated.identifier);
     expect(text).toContain('Volume (calibrated)');
-    expect(text).toContain('VF-100-01: calibrated volume 100.030 mL at 20 °C, u = 0.010 mL (U = 0.020 mL, k = 2) from volume check VC-2026-0901');
+    expect(text).toContain('VF-100-T91: calibrated volume 100.030 mL at 20 °C, u = 0.010 mL (U = 0.020 mL, k = 2) from volume check VC-2026-0901');
     expect(text).toContain('Divided by the calibrated volume V = 100.030 mL at 20 °C');
     expect(text).toContain('Flask volume, calibrated (VC-2026-0901)');
     // the nominal record's sheet does not
@@ -245,12 +250,12 @@ describe('calibrated volumes in budgets (lab setting useCalibratedVolumes)', () 
     const signed = await send('chemist', 'post', `/api/preparations/${calibrated.identifier}/signatures`, { meaning: 'prepared', password: DEMO_PASSWORD, acknowledgeResponsibility: true });
     expect(signed.status, JSON.stringify(signed.body)).toBe(201);
     const before = (await send('chemist', 'get', `/api/preparations/${calibrated.identifier}`)).body;
-    await storedCheck('VC-2026-0903', 'VF-100-01', { testedMl: '100', mean: '100.050', U: '0.040', k: '2', s: '0.020', verdict: 'pass', nextDueOn: FUTURE });
+    await storedCheck('VC-2026-0903', 'VF-100-T91', { testedMl: '100', mean: '100.050', U: '0.040', k: '2', s: '0.020', verdict: 'pass', nextDueOn: FUTURE });
     const after = (await send('chemist', 'get', `/api/preparations/${calibrated.identifier}`)).body;
     expect(after.makeUp.flask.snapshot.calibratedVolume.checkIdentifier).toBe('VC-2026-0901');
     expect(after.result).toEqual(before.result);
     expect((await verifySignatures(calibrated.id)).every((c) => c.ok)).toBe(true);
-    const next = await madeUpStock('VF-100-01');
+    const next = await madeUpStock('VF-100-T91');
     expect(next.makeUp.flask.snapshot.calibratedVolume).toMatchObject({ checkIdentifier: 'VC-2026-0903', meanMl: '100.05', standardUncertaintyMl: '0.02' });
   });
 

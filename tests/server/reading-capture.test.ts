@@ -9,8 +9,9 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { GravimetricReading, RecordVersion, Weighing } from '../../server/db/models/index.ts';
 import { VERIFICATION_CHECKLIST } from '../../shared/schemas/preparations.ts';
 import { DEMO, DEMO_PASSWORD, expectErrorBody, makeTestApp, sessionCookie, type TestApp } from './helpers/test-app.ts';
+import { emptyFlask } from './helpers/free-flask.ts';
 
-type Who = 'chemist' | 'chemist2' | 'technician' | 'admin';
+type Who = 'chemist' | 'chemist2' | 'technician' | 'admin' | 'qa';
 let t: TestApp;
 const cookie: Partial<Record<Who, string>> = {};
 const ids = { material: {} as Record<string, number>, balance: {} as Record<string, number>, ware: {} as Record<string, number>, solvent: {} as Record<string, { id: number; lot: string }> };
@@ -44,7 +45,7 @@ const setUnstable = async (allow: boolean) => expect((await send('admin', 'put',
 
 beforeAll(async () => {
   t = await makeTestApp();
-  for (const who of ['chemist', 'chemist2', 'technician', 'admin'] as const) cookie[who] = await sessionCookie(t.app, DEMO[who]);
+  for (const who of ['chemist', 'chemist2', 'technician', 'admin', 'qa'] as const) cookie[who] = await sessionCookie(t.app, DEMO[who]);
   const get = async (p: string) => (await send('chemist', 'get', p)).body.items as any[];
   for (const m of await get('/api/materials')) ids.material[m.formula] = m.id;
   for (const b of await get('/api/balances')) ids.balance[b.identifier] = b.id;
@@ -141,6 +142,7 @@ describe('the captures are signed (canonical version 3)', () => {
     const key = await planStock();
     expect((await weigh(key, { reading: captured('160.07', 'S S     160.07 mg\r\n') })).status).toBe(201);
     const water = ids.solvent['Ultrapure water']!;
+    await emptyFlask(t.app, cookie.qa!, 'VF-100-01', DEMO_PASSWORD);
     const m = await send('chemist', 'post', `/api/preparations/${key}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false });
     expect(m.status, JSON.stringify(m.body)).toBe(201);
     const s = await sign('chemist', key, 'prepared');
@@ -160,6 +162,7 @@ describe('the readings of a dilution by mass', () => {
     const parentKey = await planStock();
     expect((await weigh(parentKey, { reading: '160.07' })).status).toBe(201);
     const water = ids.solvent['Ultrapure water']!;
+    await emptyFlask(t.app, cookie.qa!, 'VF-100-01', DEMO_PASSWORD);
     expect((await send('chemist', 'post', `/api/preparations/${parentKey}/make-up`, { flaskIdentifier: 'VF-100-01', solventId: water.id, solventLot: water.lot, solutionTemperatureC: '20.0', applyTemperatureCorrection: false })).status).toBe(201);
     expect((await sign('chemist', parentKey, 'prepared')).status).toBe(201);
     expect((await sign('chemist2', parentKey, 'verified')).status).toBe(201);

@@ -32,6 +32,7 @@ let targetId: number;
 
 const ROWS: Row[] = [
   { method: 'get', path: '/api/health', allowed: 'public', ok: 200 },
+  { method: 'get', path: '/api/health/ready', allowed: 'public', ok: 200 },
   { method: 'post', path: '/api/auth/login', allowed: 'public', ok: 200, body: () => ({ email: DEMO.qa, password: DEMO_PASSWORD }) },
   { method: 'post', path: '/api/auth/logout', allowed: 'public', ok: 204, ownSession: true },
   { method: 'get', path: '/api/sessions', allowed: ['qa', 'admin'], ok: 200 },

@@ -27,3 +27,19 @@ export async function freeFlask(app: Express, cookie: string, nominalMl = '100')
     if (res.status !== 409) throw new Error(`registering ${identifier}: ${res.status} ${JSON.stringify(res.body)}`);
   }
 }
+
+/**
+ * Empties a named flask for a test that needs that very flask (e.g. the one a stored volume check belongs to):
+ * the record it holds is discarded by QA with a reason, as a lab would before reusing the flask.
+ */
+export async function emptyFlask(app: Express, qaCookie: string, identifier: string, password: string): Promise<void> {
+  const list = await request(app).get(`/api/volumetric-ware?kind=volumetric_flask&pageSize=200`).set('Cookie', qaCookie);
+  if (list.status !== 200) throw new Error(`flask list: ${list.status} ${JSON.stringify(list.body)}`);
+  const flask = (list.body.items as Array<{ identifier: string; holds?: string | null }>).find((w) => w.identifier === identifier);
+  if (!flask?.holds) return;
+  const res = await request(app)
+    .post(`/api/preparations/${flask.holds}/signatures`)
+    .set('Cookie', qaCookie)
+    .send({ meaning: 'discarded', password, acknowledgeResponsibility: true, reason: `${identifier} emptied for the next test` });
+  if (res.status !== 201) throw new Error(`discarding ${flask.holds}: ${res.status} ${JSON.stringify(res.body)}`);
+}
